@@ -1,0 +1,54 @@
+/**
+ * The two logs every write leaves (server/db/audit.ts writes both):
+ * - audit_log: who did what, when, with the row before and after — for people (admins, regulators).
+ * - change_log: one row per change of a synced record, numbered by the organisation's monotonic
+ *   counter — for machines (devices pull `since=<seq>` in pages, DESIGN.md §4).
+ * Neither is synced itself, and neither is ever updated or deleted by the application.
+ */
+import { sql } from 'drizzle-orm';
+import { bigint, bigserial, boolean, check, index, integer, jsonb, pgTable, primaryKey, text, timestamp, uuid } from 'drizzle-orm/pg-core';
+import { organisations, users } from './organisations';
+
+export const auditLog = pgTable(
+  'audit_log',
+  {
+    id: bigserial('id', { mode: 'number' }).primaryKey(),
+    /** Null only for actions outside any organisation (a user changing their own password). */
+    organisationId: uuid('organisation_id').references(() => organisations.id),
+    /** Null for the system (seeding, scheduled jobs); kept if the user is later removed. */
+    actorUserId: uuid('actor_user_id').references(() => users.id, { onDelete: 'set null' }),
+    /** Verb: create, update, delete, sign_off, reopen, acknowledge, … */
+    action: text('action').notNull(),
+    /** Table name of what was written. */
+    entity: text('entity').notNull(),
+    /** Text, because some entities have composite keys (a membership is user:organisation). */
+    entityId: text('entity_id').notNull(),
+    before: jsonb('before'),
+    after: jsonb('after'),
+    /** The HTTP request's id, to tie the row to the request log. */
+    requestId: text('request_id'),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('audit_log_org_at_idx').on(t.organisationId, t.at), index('audit_log_entity_idx').on(t.entity, t.entityId)],
+);
+
+export const changeLog = pgTable(
+  'change_log',
+  {
+    organisationId: uuid('organisation_id')
+      .notNull()
+      .references(() => organisations.id),
+    seq: bigint('seq', { mode: 'number' }).notNull(),
+    /** Table name of the synced record. */
+    entity: text('entity').notNull(),
+    entityId: uuid('entity_id').notNull(),
+    revision: integer('revision').notNull(),
+    deleted: boolean('deleted').notNull(),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organisationId, t.seq] }),
+    index('change_log_entity_idx').on(t.entity, t.entityId),
+    check('change_log_seq_ck', sql`${t.seq} >= 1 AND ${t.revision} >= 1`),
+  ],
+);

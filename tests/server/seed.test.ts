@@ -1,0 +1,266 @@
+/**
+ * The demo seed against the real database: idempotent, deterministic across fresh databases, every
+ * synced row numbered by the organisation's counter, demo accounts that sign in, and readings that
+ * follow the dipole law they were generated from.
+ */
+import fs from 'node:fs';
+import path from 'node:path';
+import { and, eq, sql } from 'drizzle-orm';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createDb, type Db } from '../../server/db/client';
+import {
+  changeLog,
+  fieldReadings,
+  memberships,
+  organisations,
+  plans,
+  stations,
+  surveyAssignments,
+  surveys,
+  sweeps,
+  SYNCED_ENTITIES,
+  users,
+} from '../../server/db/schema';
+import { DEMO_PASSWORD, HARROWBY_ORG_ID, KESTREL_ORG_ID, seedDemo, type DemoSeedResult } from '../../server/db/seed/demo';
+import { HARROWBY, HARROWBY_SOURCES, KESTREL } from '../../server/db/seed/demo-data';
+import { demoId } from '../../server/db/seed/ids';
+import { demoPlanDrawings, PLANS_DIR, renderPlanSvg } from '../../server/db/seed/plan-svg';
+import { verifyPassword } from '../../server/features/auth/password';
+import { createTestDatabase, type TestDatabase } from '../setup/test-db';
+
+interface Opened {
+  testDb: TestDatabase;
+  db: Db;
+  close: () => Promise<void>;
+}
+
+async function open(): Promise<Opened> {
+  const testDb = await createTestDatabase();
+  const { pool, db } = createDb(testDb.url, { max: 4 });
+  return { testDb, db, close: () => pool.end() };
+}
+
+/** MD5 over every row of a table in id order, optionally without some columns. */
+async function tableHash(db: Db, table: string, without: string[] = []): Promise<string> {
+  const drop = without.map((c) => ` - '${c}'`).join('');
+  const result = await db.execute<{ hash: string | null }>(
+    sql.raw(`SELECT md5(coalesce(string_agg((to_jsonb(t)${drop})::text, '|' ORDER BY t.id::text), '')) AS hash FROM "${table}" t`),
+  );
+  return result.rows[0]!.hash ?? '';
+}
+
+async function snapshot(db: Db, without: string[] = []): Promise<Record<string, string>> {
+  const tables = [...SYNCED_ENTITIES, 'organisations', 'memberships', 'change_log', 'audit_log'];
+  const out: Record<string, string> = {};
+  for (const table of tables) {
+    const key = table === 'memberships' || table === 'change_log' ? `(SELECT *, ${table === 'memberships' ? "user_id::text || organisation_id::text" : "organisation_id::text || lpad(seq::text, 12, '0')"} AS id FROM "${table}")` : null;
+    if (key) {
+      const drop = without.map((c) => ` - '${c}'`).join('');
+      const result = await db.execute<{ hash: string | null }>(
+        sql.raw(`SELECT md5(coalesce(string_agg((to_jsonb(t)${drop})::text, '|' ORDER BY t.id), '')) AS hash FROM ${key} t`),
+      );
+      out[table] = result.rows[0]!.hash ?? '';
+    } else {
+      out[table] = await tableHash(db, table, table === 'audit_log' ? [...without, 'at'] : without);
+    }
+  }
+  const people = await db.execute<{ hash: string }>(
+    sql`SELECT md5(string_agg(id::text || email || name, '|' ORDER BY email)) AS hash FROM users`,
+  );
+  out.users = people.rows[0]!.hash;
+  return out;
+}
+
+let first: Opened;
+let second: Opened;
+let result: DemoSeedResult;
+
+beforeAll(async () => {
+  [first, second] = await Promise.all([open(), open()]);
+  result = await seedDemo(first.db);
+});
+
+afterAll(async () => {
+  for (const o of [first, second]) {
+    await o?.close();
+    await o?.testDb.drop();
+  }
+});
+
+describe('seedDemo', () => {
+  it('creates the demo organisation and returns one user per role', async () => {
+    expect(result.created).toBe(true);
+    expect(result.organisationId).toBe(HARROWBY_ORG_ID);
+    expect(Object.keys(result.users).sort()).toEqual(['admin', 'emc', 'reviewer', 'surveyor', 'viewer']);
+    const roles = await first.db
+      .select({ email: users.email, role: memberships.role })
+      .from(memberships)
+      .innerJoin(users, eq(users.id, memberships.userId))
+      .where(eq(memberships.organisationId, HARROWBY_ORG_ID));
+    expect(roles.map((r) => `${r.role}:${r.email}`).sort()).toEqual(
+      [
+        'admin:admin@harrowby.example',
+        'emc:emc@harrowby.example',
+        'reviewer:reviewer@harrowby.example',
+        'surveyor:surveyor2@harrowby.example',
+        'surveyor:surveyor@harrowby.example',
+        'viewer:viewer@harrowby.example',
+      ].sort(),
+    );
+  });
+
+  it('gives every demo account the documented demo password, and only that one', async () => {
+    await Promise.all(
+      [...HARROWBY.people, ...KESTREL.people].map(async (person) => {
+        const [row] = await first.db.select({ hash: users.passwordHash }).from(users).where(eq(users.email, person.email));
+        expect(row, person.email).toBeDefined();
+        expect(await verifyPassword(DEMO_PASSWORD, row!.hash), person.email).toBe(true);
+        expect(await verifyPassword('fringewalk-demo!', row!.hash), person.email).toBe(false);
+      }),
+    );
+  });
+
+  it('changes nothing when run a second time', async () => {
+    const before = await snapshot(first.db);
+    const [orgBefore] = await first.db.select().from(organisations).where(eq(organisations.id, HARROWBY_ORG_ID));
+    const again = await seedDemo(first.db);
+    expect(again).toEqual({ ...result, created: false });
+    expect(await snapshot(first.db)).toEqual(before);
+    const [orgAfter] = await first.db.select().from(organisations).where(eq(organisations.id, HARROWBY_ORG_ID));
+    expect(orgAfter).toEqual(orgBefore);
+  });
+
+  it('makes the same rows on a second fresh database, even with two seeders racing', async () => {
+    const [a, b] = await Promise.all([seedDemo(second.db), seedDemo(second.db)]);
+    expect([a.created, b.created].sort()).toEqual([false, true]);
+    expect(a.users).toEqual(result.users);
+    // Server timestamps (created_at, updated_at, audit `at`) are the only columns allowed to differ.
+    const without = ['created_at', 'updated_at', 'at'];
+    expect(await tableHash(second.db, 'field_readings', without)).toBe(await tableHash(first.db, 'field_readings', without));
+    expect(await snapshot(second.db, without)).toEqual(await snapshot(first.db, without));
+    const [count] = await second.db.select({ n: sql<number>`count(*)::int` }).from(organisations);
+    expect(count!.n).toBe(2);
+  });
+
+  it('numbers every synced row from its organisation counter and logs each change once', async () => {
+    for (const organisationId of [HARROWBY_ORG_ID, KESTREL_ORG_ID]) {
+      const union = SYNCED_ENTITIES.map((t) => `SELECT '${t}' AS entity, id, change_seq, revision, deleted FROM "${t}" WHERE organisation_id = '${organisationId}'`).join(' UNION ALL ');
+      const rows = (await first.db.execute<{ entity: string; id: string; change_seq: string }>(sql.raw(union))).rows;
+      const log = await first.db.select().from(changeLog).where(eq(changeLog.organisationId, organisationId)).orderBy(changeLog.seq);
+      const [org] = await first.db.select({ changeSeq: organisations.changeSeq }).from(organisations).where(eq(organisations.id, organisationId));
+
+      expect(rows.length).toBeGreaterThan(0);
+      expect(log.map((l) => l.seq)).toEqual(Array.from({ length: rows.length }, (_, i) => i + 1));
+      expect(org!.changeSeq).toBe(rows.length);
+      const logged = new Map(log.map((l) => [`${l.entity}:${l.entityId}`, l.seq]));
+      for (const row of rows) expect(logged.get(`${row.entity}:${row.id}`), `${row.entity} ${row.id}`).toBe(Number(row.change_seq));
+    }
+  });
+
+  it('seeds one open survey with the surveyor assigned, and one signed-off survey with every reading decided', async () => {
+    const all = await first.db.select().from(surveys).where(eq(surveys.organisationId, HARROWBY_ORG_ID));
+    expect(all.map((s) => s.state).sort()).toEqual(['open', 'signed_off']);
+    const open = all.find((s) => s.state === 'open')!;
+    const signed = all.find((s) => s.state === 'signed_off')!;
+    const assigned = await first.db
+      .select()
+      .from(surveyAssignments)
+      .where(and(eq(surveyAssignments.surveyId, open.id), eq(surveyAssignments.role, 'surveyor')));
+    expect(assigned.map((a) => a.userId)).toEqual([result.users.surveyor]);
+
+    const undecided = await first.db.execute<{ n: number }>(sql`
+      SELECT count(*)::int AS n FROM field_readings r
+      WHERE r.survey_id = ${signed.id} AND NOT EXISTS (SELECT 1 FROM decisions d WHERE d.field_reading_id = r.id)`);
+    expect(undecided.rows[0]!.n).toBe(0);
+    const remeasure = await first.db.execute<{ n: number }>(sql`SELECT count(*)::int AS n FROM decisions WHERE survey_id = ${open.id} AND verdict = 'remeasure'`);
+    expect(remeasure.rows[0]!.n).toBe(1);
+  });
+
+  it('keeps to a few hundred readings, with both entry forms and several units', async () => {
+    const readings = await first.db.select().from(fieldReadings).where(eq(fieldReadings.organisationId, HARROWBY_ORG_ID));
+    expect(readings.length).toBeGreaterThanOrEqual(150);
+    expect(readings.length).toBeLessThanOrEqual(600);
+    expect(readings.some((r) => r.magnitudeT !== null)).toBe(true);
+    expect(readings.some((r) => r.bxT !== null)).toBe(true);
+    expect(new Set(readings.map((r) => r.unit)).size).toBeGreaterThanOrEqual(3);
+    const sweepRows = await first.db.select().from(sweeps).where(eq(sweeps.organisationId, HARROWBY_ORG_ID));
+    expect(sweepRows.length).toBeGreaterThanOrEqual(2);
+  });
+
+  it('has an instrument whose calibration is overdue today, and others that are not', async () => {
+    const rows = await first.db.execute<{ overdue: boolean }>(
+      sql`SELECT calibration_due_on < current_date AS overdue FROM instruments WHERE organisation_id = ${HARROWBY_ORG_ID} AND kind = 'gaussmeter'`,
+    );
+    expect(rows.rows.map((r) => r.overdue).sort()).toEqual([false, true]);
+  });
+
+  it('follows the dipole law at the ECR tool ports, where the electron line falls in the 2.4 GHz ISM band', async () => {
+    // Equatorial dipole field |B| = μ₀m/(4πr³) (Jackson, Classical Electrodynamics, 3rd ed., §5.6), with
+    // μ₀ = 1.25663706212e-6 N/A² (CODATA 2018). At 0.5 m the other demo magnets add < 0.1 %.
+    const ecr = HARROWBY_SOURCES.find((s) => s.key === 'ecr-coils')!;
+    const mu0 = 1.25663706212e-6;
+    const expectedT = (mu0 * ecr.dipoleMomentAM2) / (4 * Math.PI * 0.5 ** 3);
+    const rows = await first.db
+      .select({ fieldT: fieldReadings.fieldT, xM: stations.xM, yM: stations.yM, id: fieldReadings.id })
+      .from(fieldReadings)
+      .innerJoin(stations, eq(stations.id, fieldReadings.stationId))
+      .where(and(eq(fieldReadings.surveyId, demoId('harrowby:survey:2026')), eq(stations.yM, ecr.yM)));
+    const ports = rows.filter((r) => Math.abs(Math.abs(r.xM - ecr.xM) - 0.5) < 1e-9);
+    expect(ports.length).toBeGreaterThanOrEqual(2);
+    for (const port of ports) {
+      // The Hall meter's 1 % uncertainty is the noise; 4 σ covers it.
+      expect(Math.abs(port.fieldT! / expectedT - 1)).toBeLessThan(0.04);
+      // Electron cyclotron ≈ 27.99 GHz/T (REFERENCES.md, CODATA 2018); ISM band 2400–2500 MHz (ITU RR 5.150).
+      const lineHz = 27.99e9 * port.fieldT!;
+      expect(lineHz).toBeGreaterThan(2.4e9);
+      expect(lineHz).toBeLessThan(2.5e9);
+    }
+    const [sweep] = await first.db.select().from(sweeps).where(eq(sweeps.id, demoId('harrowby:survey:2026:sweep:etch')));
+    const linePeak = sweep!.peaks.find((p) => p.frequencyHz !== 2.45e9)!;
+    const [atStation] = await first.db.select({ fieldT: fieldReadings.fieldT }).from(fieldReadings).where(eq(fieldReadings.stationId, sweep!.stationId));
+    expect(linePeak.frequencyHz / (27.99e9 * atStation!.fieldT!)).toBeCloseTo(1, 3);
+  });
+
+  it('stays near the Earth field on the roof, far from every magnet', async () => {
+    // Earth's field is about 22–67 µT at the surface (REFERENCES.md, "Fringe fields").
+    const rows = await first.db
+      .select({ fieldT: fieldReadings.fieldT })
+      .from(fieldReadings)
+      .innerJoin(stations, eq(stations.id, fieldReadings.stationId))
+      .where(eq(stations.levelId, demoId('harrowby:level:roof')));
+    expect(rows.length).toBeGreaterThan(0);
+    for (const r of rows) {
+      expect(r.fieldT!).toBeGreaterThan(22e-6);
+      expect(r.fieldT!).toBeLessThan(67e-6);
+    }
+  });
+
+  it('keeps the second organisation to itself', async () => {
+    const kestrelUsers = await first.db.select({ userId: memberships.userId }).from(memberships).where(eq(memberships.organisationId, KESTREL_ORG_ID));
+    expect(kestrelUsers).toHaveLength(1);
+    const shared = await first.db.execute<{ n: number }>(sql`
+      SELECT count(*)::int AS n FROM memberships a JOIN memberships b ON a.user_id = b.user_id
+      WHERE a.organisation_id = ${HARROWBY_ORG_ID} AND b.organisation_id = ${KESTREL_ORG_ID}`);
+    expect(shared.rows[0]!.n).toBe(0);
+    const counts = await first.db.execute<{ sites: number; surveys: number }>(sql`
+      SELECT (SELECT count(*)::int FROM sites WHERE organisation_id = ${KESTREL_ORG_ID}) AS sites,
+             (SELECT count(*)::int FROM surveys WHERE organisation_id = ${KESTREL_ORG_ID}) AS surveys`);
+    expect(counts.rows[0]).toEqual({ sites: 1, surveys: 0 });
+  });
+
+  it('records plan metadata that matches the committed plan files, which match their renderer', async () => {
+    for (const drawing of demoPlanDrawings()) {
+      const committed = fs.readFileSync(path.join(PLANS_DIR, drawing.fileName), 'utf8');
+      expect(committed, `${drawing.fileName} is stale: run npx tsx server/db/seed/plan-svg.ts`).toBe(renderPlanSvg(drawing));
+    }
+    const rows = await first.db.select().from(plans);
+    expect(rows).toHaveLength(demoPlanDrawings().length);
+    for (const plan of rows) {
+      const bytes = fs.readFileSync(path.join(PLANS_DIR, plan.originalName!));
+      expect(plan.byteSize).toBe(bytes.length);
+      expect(plan.sha256).toBe((await import('node:crypto')).createHash('sha256').update(bytes).digest('hex'));
+      // 0.05 m per pixel × 960 px = 48 m, the plan width in demo-data.ts.
+      expect(plan.metresPerPixel! * plan.widthPx).toBeCloseTo(48, 9);
+    }
+  });
+});
