@@ -1,0 +1,127 @@
+/**
+ * createApp(deps): the whole HTTP application — security headers, request log, body parsing, CSRF,
+ * sessions, the feature routers, the /api 404, the client, one error handler. It never listens:
+ * server/index.ts (and the tests) put it on a port.
+ */
+import express, { type Express, type RequestHandler } from 'express';
+import type pg from 'pg';
+import type { Db } from './db/client';
+import auditRouter from './features/audit/audit.router';
+import { createAuditRepository } from './features/audit/audit.repository';
+import { createAuditService } from './features/audit/audit.service';
+import authRouter from './features/auth/auth.router';
+import { createAuthRepository } from './features/auth/auth.repository';
+import { createAuthService } from './features/auth/auth.service';
+import devMailRouter from './features/dev-mail/dev-mail.router';
+import healthRouter from './features/health/health.router';
+import { createHealthRepository } from './features/health/health.repository';
+import { createHealthService } from './features/health/health.service';
+import invitationsRouter from './features/invitations/invitations.router';
+import { createInvitationsRepository } from './features/invitations/invitations.repository';
+import { createInvitationsService } from './features/invitations/invitations.service';
+import membersRouter from './features/members/members.router';
+import { createMembersRepository } from './features/members/members.repository';
+import { createMembersService } from './features/members/members.service';
+import sitesRouter from './features/sites/sites.router';
+import { createSitesRepository } from './features/sites/sites.repository';
+import { createSitesService } from './features/sites/sites.service';
+import surveysRouter from './features/surveys/surveys.router';
+import { createSurveysRepository } from './features/surveys/surveys.repository';
+import { createSurveysService } from './features/surveys/surveys.service';
+import { isHttps } from './lib/config';
+import type { Logger } from './lib/logger';
+import type { Mailer } from './lib/mail';
+import type { MailCapture } from './lib/mail-capture';
+import { serveClient } from './lib/static-client';
+import { createAuthGuards } from './middleware/auth';
+import { csrfOriginCheck } from './middleware/csrf';
+import { apiNotFound, errorHandler } from './middleware/error-handler';
+import { createRateLimiters, DEFAULT_RATE_LIMITS, type RateLimits } from './middleware/rate-limit';
+import { requestLogger } from './middleware/request-logger';
+import { securityHeaders } from './middleware/security-headers';
+import { createSessionMiddleware } from './middleware/session';
+
+/** Largest JSON body accepted; bigger ones get 413 PAYLOAD_TOO_LARGE. Uploads use their own routes. */
+export const JSON_BODY_LIMIT = '1mb';
+
+export interface AppDeps {
+  db: Db;
+  pool: pg.Pool;
+  logger: Logger;
+  mailer: Mailer;
+  /** The local SMTP capture, when it runs (dev, tests): enables GET /api/dev/mail. */
+  mailCapture?: MailCapture | null;
+  /** Origin people use; links in e-mails point here; https here makes cookies Secure. */
+  publicUrl: string;
+  /** Origins allowed to make unsafe requests (always includes publicUrl's). */
+  trustedOrigins: string[];
+  sessionSecret: string;
+  trustProxy?: string | undefined;
+  rateLimits?: Partial<RateLimits>;
+  /** The client: a built folder (npm start) or Vite's dev middleware (npm run dev). */
+  client?: { dir: string } | { middleware: RequestHandler };
+}
+
+export interface FringewalkApp {
+  app: Express;
+  /** Stops the session store's timer; the pool belongs to the caller. */
+  close(): Promise<void>;
+}
+
+function parseTrustProxy(value: string | undefined): boolean | number | string {
+  if (value === undefined || value === '' || value === 'false') return false;
+  if (value === 'true') return true;
+  return /^\d+$/.test(value) ? Number(value) : value;
+}
+
+export function createApp(deps: AppDeps): FringewalkApp {
+  const https = isHttps(deps.publicUrl);
+  const devMode = Boolean(deps.client && 'middleware' in deps.client);
+  const trustedOrigins = [...new Set([new URL(deps.publicUrl).origin, ...deps.trustedOrigins])];
+
+  const authService = createAuthService({ repo: createAuthRepository(deps.db), mailer: deps.mailer, publicUrl: deps.publicUrl, logger: deps.logger });
+  const guards = createAuthGuards(authService);
+  const limiters = createRateLimiters({ ...DEFAULT_RATE_LIMITS, ...deps.rateLimits });
+  const session = createSessionMiddleware({ pool: deps.pool, secret: deps.sessionSecret, secure: https });
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', parseTrustProxy(deps.trustProxy));
+  app.use(securityHeaders({ https, devMode }));
+  app.use(requestLogger(deps.logger));
+
+  const api = express.Router();
+  api.use(healthRouter({ health: createHealthService(createHealthRepository(deps.db)) }));
+  // The Origin check comes before body parsing: a forged request is refused without reading it.
+  api.use(csrfOriginCheck(trustedOrigins));
+  api.use(express.json({ limit: JSON_BODY_LIMIT }));
+  api.use(session.middleware);
+  api.use('/auth', authRouter({ auth: authService, guards, limiters, cookieOptions: session.cookieOptions }));
+  api.use(
+    invitationsRouter({
+      invitations: createInvitationsService({ repo: createInvitationsRepository(deps.db), auth: authService, mailer: deps.mailer, publicUrl: deps.publicUrl }),
+      auth: authService,
+      guards,
+    }),
+  );
+  api.use(membersRouter({ members: createMembersService(createMembersRepository(deps.db)), guards }));
+  api.use(sitesRouter({ sites: createSitesService(createSitesRepository(deps.db)), guards }));
+  api.use(surveysRouter({ surveys: createSurveysService(createSurveysRepository(deps.db)), guards }));
+  api.use(auditRouter({ audit: createAuditService(createAuditRepository(deps.db)), guards }));
+  api.use(devMailRouter({ capture: deps.mailCapture ?? null, auth: authService, guards }));
+  api.use(apiNotFound);
+  app.use('/api', api);
+
+  if (deps.client && 'dir' in deps.client) app.use(serveClient(deps.client.dir));
+  if (deps.client && 'middleware' in deps.client) app.use(deps.client.middleware);
+
+  app.use(apiNotFound);
+  app.use(errorHandler(deps.logger));
+
+  return {
+    app,
+    async close() {
+      session.store.close();
+    },
+  };
+}

@@ -1,0 +1,58 @@
+/**
+ * Cookie sessions (express-session) stored in PostgreSQL's `session` table (connect-pg-simple), so
+ * any server instance can serve any request and a sign-out is final server-side.
+ */
+import connectPgSimple from 'connect-pg-simple';
+import type { RequestHandler, Response } from 'express';
+import session from 'express-session';
+import type pg from 'pg';
+import './types';
+
+export const SESSION_COOKIE = 'fw.sid';
+export const SESSION_MAX_AGE_MS = 14 * 24 * 60 * 60 * 1000;
+const PRUNE_INTERVAL_S = 15 * 60;
+
+export interface SessionSetup {
+  middleware: RequestHandler;
+  store: session.Store & { close(): void };
+  cookieOptions: { httpOnly: true; sameSite: 'lax'; secure: boolean; path: '/' };
+}
+
+export function createSessionMiddleware(options: { pool: pg.Pool; secret: string; secure: boolean }): SessionSetup {
+  const PgStore = connectPgSimple(session);
+  const store = new PgStore({
+    pool: options.pool,
+    tableName: 'session',
+    createTableIfMissing: false,
+    pruneSessionInterval: PRUNE_INTERVAL_S,
+    // A failed prune (database restarting) must not crash the process; the next one will catch up.
+    errorLog: () => {},
+  });
+  const cookieOptions = { httpOnly: true, sameSite: 'lax', secure: options.secure, path: '/' } as const;
+  const middleware = session({
+    name: SESSION_COOKIE,
+    secret: options.secret,
+    store,
+    resave: false,
+    saveUninitialized: false,
+    cookie: { ...cookieOptions, maxAge: SESSION_MAX_AGE_MS },
+  });
+  return { middleware, store, cookieOptions };
+}
+
+export function clearSessionCookie(res: Response, cookieOptions: SessionSetup['cookieOptions']): void {
+  res.clearCookie(SESSION_COOKIE, cookieOptions);
+}
+
+/** Signs the request's client in as userId under a fresh session id (no session fixation). */
+export async function establishSession(req: import('express').Request, userId: string): Promise<void> {
+  await new Promise<void>((resolve, reject) => req.session.regenerate((error) => (error ? reject(error) : resolve())));
+  req.session.userId = userId;
+  await new Promise<void>((resolve, reject) => req.session.save((error) => (error ? reject(error) : resolve())));
+}
+
+/** Ends the session server-side (the row is deleted), so a copied cookie is worthless afterwards. */
+export async function endSession(req: import('express').Request): Promise<void> {
+  if (!req.session) return;
+  await new Promise<void>((resolve, reject) => req.session.destroy((error) => (error ? reject(error) : resolve())));
+}
