@@ -140,6 +140,7 @@ function reachableByOthers(dir: string): boolean {
  * so fall back to a stable folder under /var/tmp named after the project path (said in the log).
  */
 export function resolveDataDir(preferred: string, log: (m: string) => void = () => {}): string {
+  preferred = path.resolve(preferred);
   if (!isRoot() || reachableByOthers(preferred)) return preferred;
   const hash = createHash('sha1').update(path.resolve(preferred)).digest('hex').slice(0, 10);
   const fallback = path.join('/var/tmp', `fringewalk-pg-${hash}`);
@@ -264,7 +265,7 @@ export async function startLocalPostgres(options: LocalPostgresOptions): Promise
       await run('pg_ctl', ['-D', clusterDir, '-l', logFile, '-w', '-t', '30', '-o', serverOptions.join(' '), 'start']);
     } catch (error) {
       const tail = fs.existsSync(logFile) ? fs.readFileSync(logFile, 'utf8').split('\n').slice(-8).join('\n') : '';
-      throw new PostgresSetupError(`PostgreSQL did not start on 127.0.0.1:${options.port}. Its log says:\n${tail || String(error)}`);
+      throw new PostgresSetupError(`PostgreSQL did not start on 127.0.0.1:${options.port}: ${(error as { stderr?: string }).stderr?.trim() || String(error)}\nIts log ends:\n${tail}`);
     }
     startedHere = true;
   }

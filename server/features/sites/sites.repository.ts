@@ -8,8 +8,10 @@ export function createSitesRepository(db: Db) {
     id: sites.id,
     name: sites.name,
     address: sites.address,
-    levelCount: sql<number>`(SELECT count(*)::int FROM ${levels} WHERE ${levels.siteId} = ${sites.id} AND ${levels.organisationId} = ${sites.organisationId} AND NOT ${levels.deleted})`,
-    sourceCount: sql<number>`(SELECT count(*)::int FROM ${sources} WHERE ${sources.siteId} = ${sites.id} AND ${sources.organisationId} = ${sites.organisationId} AND NOT ${sources.deleted})`,
+    // Correlated subqueries spell out their aliases: Drizzle renders a column inside sql`` without its
+    // table in a single-table select, so `${levels.siteId} = ${sites.id}` would compare levels with itself.
+    levelCount: sql<number>`(SELECT count(*)::int FROM ${levels} l WHERE l.site_id = ${sites}.id AND l.organisation_id = ${sites}.organisation_id AND NOT l.deleted)`,
+    sourceCount: sql<number>`(SELECT count(*)::int FROM ${sources} s WHERE s.site_id = ${sites}.id AND s.organisation_id = ${sites}.organisation_id AND NOT s.deleted)`,
     archived: sites.archived,
   };
 

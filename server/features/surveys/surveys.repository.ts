@@ -11,9 +11,11 @@ export function createSurveysRepository(db: Db) {
     name: surveys.name,
     state: surveys.state,
     startsOn: surveys.startsOn,
-    stationCount: sql<number>`(SELECT count(*)::int FROM ${stations} WHERE ${stations.surveyId} = ${surveys.id} AND ${stations.organisationId} = ${surveys.organisationId} AND NOT ${stations.deleted})`,
-    readingCount: sql<number>`(SELECT count(*)::int FROM ${fieldReadings} WHERE ${fieldReadings.surveyId} = ${surveys.id} AND ${fieldReadings.organisationId} = ${surveys.organisationId} AND NOT ${fieldReadings.deleted})`,
-    assignedToMe: sql<boolean>`EXISTS (SELECT 1 FROM ${surveyAssignments} WHERE ${surveyAssignments.surveyId} = ${surveys.id} AND ${surveyAssignments.userId} = ${userId} AND NOT ${surveyAssignments.deleted})`,
+    // Aliases spelled out: Drizzle leaves columns unqualified inside sql`` in a single-table select
+    // (see sites.repository.ts), and these must not depend on the join below to stay correct.
+    stationCount: sql<number>`(SELECT count(*)::int FROM ${stations} st WHERE st.survey_id = ${surveys}.id AND st.organisation_id = ${surveys}.organisation_id AND NOT st.deleted)`,
+    readingCount: sql<number>`(SELECT count(*)::int FROM ${fieldReadings} fr WHERE fr.survey_id = ${surveys}.id AND fr.organisation_id = ${surveys}.organisation_id AND NOT fr.deleted)`,
+    assignedToMe: sql<boolean>`EXISTS (SELECT 1 FROM ${surveyAssignments} sa WHERE sa.survey_id = ${surveys}.id AND sa.user_id = ${userId} AND NOT sa.deleted)`,
   });
 
   const base = (userId: string) =>
