@@ -1,0 +1,6 @@
+/** Query keys for the auth feature; never retype these arrays elsewhere. */
+export const authKeys = {
+  all: ['auth'] as const,
+  session: () => [...authKeys.all, 'session'] as const,
+  invitation: (token: string) => [...authKeys.all, 'invitation', token] as const,
+};

@@ -1,0 +1,4 @@
+export const devMailKeys = {
+  all: ['dev-mail'] as const,
+  list: () => [...devMailKeys.all, 'list'] as const,
+};

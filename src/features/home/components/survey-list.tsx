@@ -1,0 +1,47 @@
+import type { SurveySummary } from '@shared/schemas/home';
+
+const STATE_LABELS: Record<SurveySummary['state'], string> = {
+  open: 'Open',
+  submitted: 'Submitted for review',
+  signed_off: 'Signed off',
+};
+
+const STATE_STYLES: Record<SurveySummary['state'], string> = {
+  open: 'bg-accent-soft text-accent-soft-fg',
+  submitted: 'bg-warning-soft text-warning',
+  signed_off: 'bg-ok-soft text-ok',
+};
+
+function formatDay(isoDate: string | null): string | null {
+  if (!isoDate) return null;
+  const date = new Date(isoDate);
+  return Number.isNaN(date.getTime()) ? isoDate : date.toLocaleDateString(undefined, { day: 'numeric', month: 'short', year: 'numeric' });
+}
+
+/** Surveys of the organisation; the user's own assignments first. */
+export function SurveyList({ surveys }: { surveys: SurveySummary[] }) {
+  if (surveys.length === 0) return <p className="text-fg-muted">No surveys in this organisation yet.</p>;
+  const ordered = [...surveys].sort((a, b) => Number(b.assignedToMe) - Number(a.assignedToMe));
+  return (
+    <ul className="grid gap-3 md:grid-cols-2" aria-label="Surveys">
+      {ordered.map((survey) => {
+        const starts = formatDay(survey.startsOn);
+        return (
+          <li key={survey.id} className="rounded-xl border border-border bg-surface p-4" data-testid="survey-card">
+            <div className="flex flex-wrap items-start justify-between gap-2">
+              <h3 className="text-lg font-bold leading-snug">{survey.name}</h3>
+              <span className={`rounded-full px-3 py-1 text-sm font-bold ${STATE_STYLES[survey.state]}`}>{STATE_LABELS[survey.state]}</span>
+            </div>
+            <p className="text-fg-muted">{survey.siteName}</p>
+            <p className="mt-2 text-sm">
+              {starts ? `Starts ${starts} · ` : ''}
+              {survey.stationCount} {survey.stationCount === 1 ? 'station' : 'stations'} · {survey.readingCount}{' '}
+              {survey.readingCount === 1 ? 'reading' : 'readings'}
+            </p>
+            {survey.assignedToMe && <p className="mt-2 inline-block rounded bg-offline-soft px-2 py-0.5 text-sm font-bold text-offline">Assigned to you</p>}
+          </li>
+        );
+      })}
+    </ul>
+  );
+}
