@@ -127,11 +127,11 @@ function reachableByOthers(dir: string): boolean {
     const parent = path.dirname(current);
     if (parent === current) return true;
     current = parent;
-    try {
-      if ((fs.statSync(current).mode & 0o001) === 0) return false;
-    } catch {
-      return false;
-    }
+    // A folder that does not exist yet will be made by us with the usual 0755 mode; only the ones
+    // that exist can lock the unprivileged user out. (Treating a missing one as unreachable sent the
+    // first start of a fresh clone to the fallback folder and every later start to .data/.)
+    if (!fs.existsSync(current)) continue;
+    if ((fs.statSync(current).mode & 0o001) === 0) return false;
   }
 }
 
