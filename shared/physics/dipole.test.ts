@@ -9,6 +9,7 @@ import {
   type Vec3,
 } from './dipole';
 import { PhysicsInputError } from './errors';
+import { mulberry32 } from '../random/mulberry32';
 
 const MU0 = 1.25663706212e-6; // CODATA 2018
 const K = MU0 / (4 * Math.PI);
@@ -16,16 +17,6 @@ const K = MU0 / (4 * Math.PI);
 // Invented magnet (demo data): 1.8e6 A·m² along x, source 1.2 m above the floor.
 const MAGNET: DipoleModel = { sourceM: [2, -1, 1.2], momentAm2: [1.8e6, 0, 0] };
 
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 describe('dipole field (Jackson §5.6; Griffiths §5.4)', () => {
   it('matches Griffiths’ spherical components B_r = μ₀m·2cosθ/(4πr³), B_θ = μ₀m·sinθ/(4πr³)', () => {

@@ -2,17 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { dipoleFieldMagnitudeTesla, dipoleThresholdRadiusM, type DipoleModel } from './dipole';
 import { PhysicsInputError } from './errors';
 import { gridCellFieldTesla, gridForStations, interpolateLogFieldGrid, isogaussContours } from './field-grid';
+import { mulberry32 } from '../random/mulberry32';
 
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 function scatter(n: number, seed: number, half: number): { xM: Float64Array; yM: Float64Array } {
   const rand = mulberry32(seed);

@@ -96,14 +96,5 @@ export function printTable(rows: readonly BenchRow[], title: string): string {
   return text;
 }
 
-/** Deterministic PRNG (mulberry32) for invented benchmark data: same seed, same data. */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Deterministic PRNG for invented benchmark data: same seed, same data. */
+export { mulberry32 } from '../../shared/random/mulberry32';
