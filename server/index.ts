@@ -12,11 +12,15 @@ import { createDb } from './db/client';
 import { startLocalPostgres } from './db/local-postgres';
 import { runMigrations } from './db/migrate';
 import { seedDemo } from './db/seed/demo';
+import { seedDemoFiles } from './db/seed/demo-files';
+import { startCalibrationReminders } from './features/instruments/calibration-reminders';
 import { buildClient, createViteDevMiddleware } from './lib/client-build';
 import { ConfigError, LOCAL_DATABASE_NAME, loadConfig, resolveSessionSecret, type Config } from './lib/config';
 import { createLogger } from './lib/logger';
 import { createMailer } from './lib/mail';
 import { startMailCapture, type MailCapture } from './lib/mail-capture';
+import { startLocalS3 } from './lib/local-s3';
+import { createStorage, type StorageOptions } from './lib/storage';
 
 export type RunMode = 'start' | 'dev';
 
@@ -118,6 +122,28 @@ export async function runServer(mode: RunMode): Promise<void> {
       await seedDemo(db);
     }
 
+    let storageOptions: StorageOptions;
+    if (config.s3.endpoint) {
+      say(`Using the object store at ${config.s3.endpoint} (bucket ${config.s3.bucket}).`);
+      storageOptions = {
+        endpoint: config.s3.endpoint,
+        bucket: config.s3.bucket,
+        region: config.s3.region,
+        accessKeyId: config.s3.accessKeyId!,
+        secretAccessKey: config.s3.secretAccessKey!,
+      };
+    } else {
+      const localS3 = await startLocalS3({ directory: path.join(config.dataDir, 's3'), bucket: config.s3.bucket, port: config.s3.localPort });
+      stack.push({ name: 'the local object store', stop: () => localS3.close() });
+      say(`Started the local object store (fake S3) on ${localS3.endpoint}, files in ${path.join(config.dataDir, 's3')}.`);
+      storageOptions = localS3.storageOptions;
+    }
+    const storage = createStorage(storageOptions);
+    stack.push({ name: 'the object-store client', stop: () => storage.close() });
+    if (!config.s3.endpoint) await storage.ensureBucket();
+    const demoFiles = await seedDemoFiles(db, storage);
+    if (demoFiles.length > 0) say(`Put ${demoFiles.length} demo plan image(s) into the object store.`);
+
     let capture: MailCapture | null = null;
     let smtpUrl = config.smtpUrl;
     if (!smtpUrl) {
@@ -160,6 +186,7 @@ export async function runServer(mode: RunMode): Promise<void> {
       logger,
       mailer,
       mailCapture: capture,
+      storage,
       publicUrl: config.publicUrl,
       trustedOrigins: config.trustedOrigins,
       sessionSecret,
@@ -167,6 +194,8 @@ export async function runServer(mode: RunMode): Promise<void> {
       client,
     });
     stack.push({ name: 'the app', stop: close });
+    const reminders = startCalibrationReminders({ db, storage, mailer, publicUrl: config.publicUrl, logger });
+    stack.push({ name: 'the calibration reminders', stop: () => reminders.stop() });
     server.on('request', app);
 
     await new Promise<void>((resolve, reject) => {

@@ -3,3 +3,8 @@ export interface AuditContext {
   actorUserId: string | null;
   requestId?: string;
 }
+
+/** The audit context of a signed-in request (after guards.requireUser). */
+export function auditContextOf(req: { user?: { id: string } | undefined; id?: unknown }): AuditContext {
+  return { actorUserId: req.user?.id ?? null, requestId: String(req.id ?? '') };
+}

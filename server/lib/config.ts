@@ -34,6 +34,14 @@ export const EnvSchema = z.object({
   /** Express "trust proxy" setting; set it when a reverse proxy terminates TLS (e.g. "1" or "loopback"). */
   TRUST_PROXY: optionalText,
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  /** S3-compatible object store; unset starts the local fake (s3rver) on 127.0.0.1. */
+  S3_ENDPOINT: optionalText.pipe(z.url({ protocol: /^https?$/, message: 'Must be an http:// or https:// URL.' }).optional()),
+  S3_BUCKET: z.string().trim().min(3).max(63).regex(/^[a-z0-9][a-z0-9.-]+[a-z0-9]$/, 'Must be a valid S3 bucket name.').default('fringewalk'),
+  S3_ACCESS_KEY_ID: optionalText,
+  S3_SECRET_ACCESS_KEY: optionalText,
+  S3_REGION: z.string().trim().min(1).default('us-east-1'),
+  /** Port of the local fake S3 server when S3_ENDPOINT is unset; 0 lets the kernel choose. */
+  FRINGEWALK_S3_PORT: port(0),
 });
 export type Env = z.infer<typeof EnvSchema>;
 
@@ -60,6 +68,8 @@ export interface Config {
   sessionSecret: string | undefined;
   trustProxy: string | undefined;
   logLevel: Env['LOG_LEVEL'];
+  /** The object store; endpoint undefined = start the local fake. */
+  s3: { endpoint: string | undefined; bucket: string; accessKeyId: string | undefined; secretAccessKey: string | undefined; region: string; localPort: number };
 }
 
 function originOf(url: string): string {
@@ -82,6 +92,9 @@ export function loadConfig(source: NodeJS.ProcessEnv = process.env): Config {
     .map((o) => o.trim())
     .filter(Boolean);
   const badOrigin = extra.find((o) => !URL.canParse(o));
+  if (env.S3_ENDPOINT && (!env.S3_ACCESS_KEY_ID || !env.S3_SECRET_ACCESS_KEY)) {
+    throw new ConfigError('The configuration is not valid:\n  S3_ACCESS_KEY_ID, S3_SECRET_ACCESS_KEY: required when S3_ENDPOINT is set.');
+  }
   if (badOrigin) throw new ConfigError(`The configuration is not valid:\n  TRUSTED_ORIGINS: "${badOrigin}" is not a URL.`);
   const trustedOrigins = [...new Set([originOf(publicUrl), ...extra.map(originOf)])];
   return {
@@ -100,6 +113,14 @@ export function loadConfig(source: NodeJS.ProcessEnv = process.env): Config {
     sessionSecret: env.SESSION_SECRET,
     trustProxy: env.TRUST_PROXY,
     logLevel: env.LOG_LEVEL,
+    s3: {
+      endpoint: env.S3_ENDPOINT,
+      bucket: env.S3_BUCKET,
+      accessKeyId: env.S3_ACCESS_KEY_ID,
+      secretAccessKey: env.S3_SECRET_ACCESS_KEY,
+      region: env.S3_REGION,
+      localPort: env.FRINGEWALK_S3_PORT,
+    },
   };
 }
 

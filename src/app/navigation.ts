@@ -13,6 +13,8 @@ export interface NavSection extends ShellNavItem {
 
 export const NAV_SECTIONS: readonly NavSection[] = [
   { to: '/', label: 'Home', end: true, roles: ROLES },
+  { to: '/sites', label: 'Site setup', roles: ['admin', 'reviewer'] },
+  { to: '/instruments', label: 'Instruments', roles: ['admin', 'reviewer', 'emc'] },
   { to: '/dev/mail', label: 'Dev mail', roles: ['admin'], needs: 'dev-mail' },
 ];
 

@@ -10,7 +10,9 @@ import { createApp, type AppDeps } from '../../server/app';
 import { createDb } from '../../server/db/client';
 import { createMailer } from '../../server/lib/mail';
 import { startMailCapture, type CapturedMail } from '../../server/lib/mail-capture';
-import { TEST_SESSION_SECRET, testLogger } from './test-app';
+import { seedDemoFiles } from '../../server/db/seed/demo-files';
+import type { Storage } from '../../server/lib/storage';
+import { startTestStorage, TEST_SESSION_SECRET, testLogger } from './test-app';
 import { createTestDatabase } from './test-db';
 
 export type { CapturedMail };
@@ -18,6 +20,8 @@ export type { CapturedMail };
 export interface TestApp {
   baseUrl: string;
   databaseUrl: string;
+  /** The object store the app uses (a local s3rver in a temp folder). */
+  storage: Storage;
   mail: {
     list(): Promise<CapturedMail[]>;
     waitFor(predicate: (m: CapturedMail) => boolean, timeoutMs?: number): Promise<CapturedMail>;
@@ -56,6 +60,10 @@ export async function startTestApp(options: StartTestAppOptions = {}): Promise<T
       await seedDemo(db);
     }
 
+    const files = await startTestStorage();
+    cleanups.push(() => files.close());
+    if (options.seed === 'demo') await seedDemoFiles(db, files.storage);
+
     const capture = await startMailCapture();
     cleanups.push(() => capture.close());
     const mailer = createMailer({ smtpUrl: capture.url, from: 'Fringewalk test <no-reply@fringewalk.invalid>' });
@@ -82,6 +90,7 @@ export async function startTestApp(options: StartTestAppOptions = {}): Promise<T
       logger: testLogger(),
       mailer,
       mailCapture: capture,
+      storage: files.storage,
       publicUrl: baseUrl,
       trustedOrigins: [baseUrl],
       sessionSecret: TEST_SESSION_SECRET,
@@ -94,6 +103,7 @@ export async function startTestApp(options: StartTestAppOptions = {}): Promise<T
     return {
       baseUrl,
       databaseUrl: database.url,
+      storage: files.storage,
       mail: {
         list: async () => capture.list(),
         waitFor: (predicate, timeoutMs) => capture.waitFor(predicate, timeoutMs),

@@ -3,12 +3,18 @@
  * to a local capture. TRUSTED_ORIGIN stands for the browser origin of the app in these tests; unsafe
  * requests carry it as Origin (the CSRF check) unless a test is about the check itself.
  */
+import fs from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
 import type { Express } from 'express';
 import { createApp, type AppDeps } from '../../server/app';
 import { createDb, type Db } from '../../server/db/client';
 import { createMailer } from '../../server/lib/mail';
 import { startMailCapture, type MailCapture } from '../../server/lib/mail-capture';
 import { createLogger } from '../../server/lib/logger';
+import { startLocalS3, type LocalS3 } from '../../server/lib/local-s3';
+import { createStorage, type Storage } from '../../server/lib/storage';
+import { seedDemoFiles } from '../../server/db/seed/demo-files';
 import { createTestDatabase } from './test-db';
 import type pg from 'pg';
 
@@ -25,7 +31,25 @@ export interface InProcessApp {
   pool: pg.Pool;
   databaseUrl: string;
   capture: MailCapture;
+  /** The object store the app uses (a local s3rver in a temp folder). */
+  storage: Storage;
   close(): Promise<void>;
+}
+
+/** A local fake S3 (s3rver) in a fresh temp folder, with its bucket, for one test file; close() removes the folder. */
+export async function startTestStorage(): Promise<{ s3: LocalS3; storage: Storage; close(): Promise<void> }> {
+  const directory = await fs.mkdtemp(path.join(os.tmpdir(), 'fringewalk-s3-'));
+  const s3 = await startLocalS3({ directory, bucket: 'fringewalk-test' });
+  const storage = createStorage(s3.storageOptions);
+  return {
+    s3,
+    storage,
+    async close() {
+      storage.close();
+      await s3.close();
+      await fs.rm(directory, { recursive: true, force: true });
+    },
+  };
 }
 
 export async function createTestApp(options: { seed?: (db: Db) => Promise<unknown>; rateLimits?: AppDeps['rateLimits'] } = {}): Promise<InProcessApp> {
@@ -40,6 +64,8 @@ export async function createTestApp(options: { seed?: (db: Db) => Promise<unknow
       throw error;
     }
   }
+  const files = await startTestStorage();
+  if (options.seed) await seedDemoFiles(db, files.storage);
   const capture = await startMailCapture();
   const mailer = createMailer({ smtpUrl: capture.url, from: 'Fringewalk test <no-reply@fringewalk.invalid>' });
   const { app, close } = createApp({
@@ -48,6 +74,7 @@ export async function createTestApp(options: { seed?: (db: Db) => Promise<unknow
     logger: testLogger(),
     mailer,
     mailCapture: capture,
+    storage: files.storage,
     publicUrl: TRUSTED_ORIGIN,
     trustedOrigins: [TRUSTED_ORIGIN],
     sessionSecret: TEST_SESSION_SECRET,
@@ -59,10 +86,12 @@ export async function createTestApp(options: { seed?: (db: Db) => Promise<unknow
     pool,
     databaseUrl: database.url,
     capture,
+    storage: files.storage,
     async close() {
       await close();
       mailer.close();
       await capture.close();
+      await files.close();
       await pool.end();
       await database.drop();
     },
