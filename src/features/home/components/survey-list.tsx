@@ -1,3 +1,4 @@
+import { Link } from 'react-router-dom';
 import type { SurveySummary } from '@shared/schemas/home';
 
 const STATE_LABELS: Record<SurveySummary['state'], string> = {
@@ -29,7 +30,11 @@ export function SurveyList({ surveys }: { surveys: SurveySummary[] }) {
         return (
           <li key={survey.id} className="rounded-xl border border-border bg-surface p-4" data-testid="survey-card">
             <div className="flex flex-wrap items-start justify-between gap-2">
-              <h3 className="text-lg font-bold leading-snug">{survey.name}</h3>
+              <h3 className="text-lg font-bold leading-snug">
+                <Link to={`/surveys/${survey.id}`} className="inline-flex min-h-touch items-center">
+                  {survey.name}
+                </Link>
+              </h3>
               <span className={`rounded-full px-3 py-1 text-sm font-bold ${STATE_STYLES[survey.state]}`}>{STATE_LABELS[survey.state]}</span>
             </div>
             <p className="text-fg-muted">{survey.siteName}</p>

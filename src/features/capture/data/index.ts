@@ -1,0 +1,23 @@
+/** The capture feature's device data API (see /tmp/capture-contract.md while issue 4 is open). */
+export { takeSurveyOffline, TAKE_OFFLINE_STEPS, type TakeOfflineProgress, type TakeOfflineResult } from './take-survey-offline';
+export { useOfflineSurvey, getOfflineSurvey, type OfflineSurvey } from './use-offline-survey';
+export { usePlanImageUrl } from './use-plan-image-url';
+export { startWalk, endWalk, findOpenWalk } from './start-walk';
+export { useCurrentWalk } from './use-current-walk';
+export { saveStation, type StationInput } from './save-station';
+export { saveFieldReading, type FieldReadingInput } from './save-field-reading';
+export { saveSweep, type SweepInput } from './save-sweep';
+export { deleteFieldReading } from './delete-field-reading';
+export { deleteSweep } from './delete-sweep';
+export { deleteStation } from './delete-station';
+export { useStations, getStations, type StationWithField } from './use-stations';
+export { useWalkEntries, getWalkEntries, type WalkEntry } from './use-walk-entries';
+export { useRemeasureRequests, getRemeasureRequests } from './use-remeasure-requests';
+export { usePendingCounts, getPendingCounts, pendingSummary, type PendingCounts } from './use-pending-counts';
+export { useDraft, useDraftEntry, getDraft, saveDraft, clearDraft } from './drafts';
+export { useLastFieldUnit, setLastFieldUnit, DEFAULT_FIELD_UNIT } from './last-unit';
+export { resizePhoto, PHOTO_MAX_LONG_SIDE_PX } from './resize-photo';
+export { requestPersistentStorage, isStoragePersisted, getStorageEstimate, formatBytes, type PersistAnswer, type StorageEstimate } from './storage';
+export { getDeviceId } from './device';
+export { CaptureError, CaptureValidationError, StorageFullError, isCaptureError, type CaptureErrorCode } from '@/db';
+export { useSurveySummary, getSurveySummary, captureKeys } from './get-survey-summary';
