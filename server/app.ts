@@ -7,6 +7,13 @@ import express, { type Express, type RequestHandler } from 'express';
 import type pg from 'pg';
 import type { Db } from './db/client';
 import auditRouter from './features/audit/audit.router';
+import attachmentsRouter from './features/attachments/attachments.router';
+import { createAttachmentsRepository } from './features/attachments/attachments.repository';
+import { createAttachmentsService } from './features/attachments/attachments.service';
+import { createRepeatsService } from './features/sync/repeats.service';
+import syncRouter from './features/sync/sync.router';
+import { createSyncRepository } from './features/sync/sync.repository';
+import { createSyncService } from './features/sync/sync.service';
 import { createAuditRepository } from './features/audit/audit.repository';
 import { createAuditService } from './features/audit/audit.service';
 import authRouter from './features/auth/auth.router';
@@ -25,7 +32,28 @@ import { createMembersService } from './features/members/members.service';
 import sitesRouter from './features/sites/sites.router';
 import { createSitesRepository } from './features/sites/sites.repository';
 import { createSitesService } from './features/sites/sites.service';
+import offlineRouter from './features/offline/offline.router';
+import { createOfflineRepository } from './features/offline/offline.repository';
+import { createOfflineService } from './features/offline/offline.service';
 import surveysRouter from './features/surveys/surveys.router';
+import emittersRouter from './features/emitters/emitters.router';
+import { createEmittersRepository } from './features/emitters/emitters.repository';
+import { createEmittersService } from './features/emitters/emitters.service';
+import instrumentsRouter from './features/instruments/instruments.router';
+import { createInstrumentsRepository } from './features/instruments/instruments.repository';
+import { createInstrumentsService } from './features/instruments/instruments.service';
+import plansRouter from './features/plans/plans.router';
+import { createPlansRepository } from './features/plans/plans.repository';
+import { createPlansService } from './features/plans/plans.service';
+import roomsRouter from './features/rooms/rooms.router';
+import { createRoomsRepository } from './features/rooms/rooms.repository';
+import { createRoomsService } from './features/rooms/rooms.service';
+import sourcesRouter from './features/sources/sources.router';
+import { createSourcesRepository } from './features/sources/sources.repository';
+import { createSourcesService } from './features/sources/sources.service';
+import surveySetupRouter from './features/survey-setup/survey-setup.router';
+import { createSurveySetupRepository } from './features/survey-setup/survey-setup.repository';
+import { createSurveySetupService } from './features/survey-setup/survey-setup.service';
 import { createSurveysRepository } from './features/surveys/surveys.repository';
 import { createSurveysService } from './features/surveys/surveys.service';
 import { isHttps } from './lib/config';
@@ -33,6 +61,7 @@ import type { Logger } from './lib/logger';
 import type { Mailer } from './lib/mail';
 import type { MailCapture } from './lib/mail-capture';
 import { serveClient } from './lib/static-client';
+import { unavailableStorage, type Storage } from './lib/storage';
 import { createAuthGuards } from './middleware/auth';
 import { csrfOriginCheck } from './middleware/csrf';
 import { apiNotFound, errorHandler } from './middleware/error-handler';
@@ -51,6 +80,8 @@ export interface AppDeps {
   mailer: Mailer;
   /** The local SMTP capture, when it runs (dev, tests): enables GET /api/dev/mail. */
   mailCapture?: MailCapture | null;
+  /** The object store (plans, antenna-factor tables); without it, file routes answer 503. */
+  storage?: Storage;
   /** Origin people use; links in e-mails point here; https here makes cookies Secure. */
   publicUrl: string;
   /** Origins allowed to make unsafe requests (always includes publicUrl's). */
@@ -91,6 +122,13 @@ export function createApp(deps: AppDeps): FringewalkApp {
   app.use(requestLogger(deps.logger));
 
   const api = express.Router();
+  // API answers are per user and change with every sync: no browser or proxy may keep them (a cached
+  // pull page handed one device another's stale changes). A route that is safe to cache (plan images,
+  // with their ETag) sets its own Cache-Control after this.
+  api.use((_req, res, next) => {
+    res.set('Cache-Control', 'no-store');
+    next();
+  });
   api.use(healthRouter({ health: createHealthService(createHealthRepository(deps.db)) }));
   // The Origin check comes before body parsing: a forged request is refused without reading it.
   api.use(csrfOriginCheck(trustedOrigins));
@@ -107,6 +145,31 @@ export function createApp(deps: AppDeps): FringewalkApp {
   api.use(membersRouter({ members: createMembersService(createMembersRepository(deps.db)), guards }));
   api.use(sitesRouter({ sites: createSitesService(createSitesRepository(deps.db)), guards }));
   api.use(surveysRouter({ surveys: createSurveysService(createSurveysRepository(deps.db)), guards }));
+  api.use(offlineRouter({ offline: createOfflineService(createOfflineRepository(deps.db)), guards }));
+  // Site setup (issue 6): plans, rooms, magnets, emitters, instruments, survey planning.
+  const storage = deps.storage ?? unavailableStorage();
+  api.use(plansRouter({ plans: createPlansService({ repo: createPlansRepository(deps.db), storage, logger: deps.logger }), guards }));
+  api.use(roomsRouter({ rooms: createRoomsService(createRoomsRepository(deps.db)), guards }));
+  api.use(sourcesRouter({ sources: createSourcesService(createSourcesRepository(deps.db)), guards }));
+  api.use(emittersRouter({ emitters: createEmittersService(createEmittersRepository(deps.db)), guards }));
+  api.use(
+    instrumentsRouter({
+      instruments: createInstrumentsService({ repo: createInstrumentsRepository(deps.db), storage, mailer: deps.mailer, publicUrl: deps.publicUrl, logger: deps.logger }),
+      guards,
+    }),
+  );
+  api.use(
+    surveySetupRouter({
+      surveySetup: createSurveySetupService({ repo: createSurveySetupRepository(deps.db), mailer: deps.mailer, publicUrl: deps.publicUrl, logger: deps.logger }),
+      guards,
+    }),
+  );
+  // Sync (issue 5): push, pull, conflicts, repeat groups, attachments.
+  const syncRepo = createSyncRepository(deps.db);
+  const repeats = createRepeatsService({ repo: syncRepo, logger: deps.logger });
+  const sync = createSyncService({ repo: syncRepo, logger: deps.logger, onRepeatsDirty: repeats.schedule });
+  api.use(syncRouter({ sync, repeats, guards }));
+  api.use(attachmentsRouter({ attachments: createAttachmentsService({ repo: createAttachmentsRepository(deps.db), storage }), guards }));
   api.use(auditRouter({ audit: createAuditService(createAuditRepository(deps.db)), guards }));
   api.use(devMailRouter({ capture: deps.mailCapture ?? null, auth: authService, guards }));
   api.use(apiNotFound);
@@ -122,6 +185,7 @@ export function createApp(deps: AppDeps): FringewalkApp {
     app,
     async close() {
       session.store.close();
+      await repeats.close();
     },
   };
 }

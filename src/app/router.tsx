@@ -3,6 +3,7 @@ import { RouteErrorBoundary } from './route-error-boundary';
 import DevMailRoute from './routes/dev-mail';
 import ForgotPasswordRoute from './routes/forgot-password';
 import HomeRoute from './routes/home';
+import InstrumentsRoute from './routes/instruments';
 import InvitationRoute from './routes/invitation';
 import { LoadingScreen } from './routes/loading-screen';
 import NotFoundRoute from './routes/not-found';
@@ -10,6 +11,11 @@ import ResetPasswordRoute from './routes/reset-password';
 import RootRoute from './routes/root';
 import SignInRoute from './routes/sign-in';
 import SignedInLayout from './routes/signed-in-layout';
+import SitesRoute from './routes/sites';
+import SiteDetailRoute from './routes/sites-detail';
+import SurveySetupRoute from './routes/survey-setup';
+import SurveySetupNewRoute from './routes/survey-setup-new';
+import SurveyRoute from './routes/survey';
 
 const errorElement = <RouteErrorBoundary />;
 
@@ -29,6 +35,16 @@ export const router = createBrowserRouter([
         children: [
           { path: '/', element: <HomeRoute />, errorElement },
           { path: '/dev/mail', element: <DevMailRoute />, errorElement },
+          { path: '/sites', element: <SitesRoute />, errorElement },
+          { path: '/sites/:siteId', element: <SiteDetailRoute />, errorElement },
+          // The plan screens carry Leaflet and Geoman: loaded only when opened.
+          { path: '/sites/:siteId/levels/:levelId', lazy: async () => ({ Component: (await import('./routes/sites-level')).default }), errorElement },
+          { path: '/sites/:siteId/new-survey', element: <SurveySetupNewRoute />, errorElement },
+          { path: '/survey-setup/:surveyId', element: <SurveySetupRoute />, errorElement },
+          { path: '/instruments', element: <InstrumentsRoute />, errorElement },
+          { path: '/surveys/:surveyId', element: <SurveyRoute />, errorElement },
+          // Capture carries Leaflet and the forms: loaded when opened (the service worker precaches the chunk).
+          { path: '/surveys/:surveyId/capture', lazy: async () => ({ Component: (await import('./routes/capture')).default }), errorElement },
         ],
       },
       { path: '*', element: <NotFoundRoute /> },

@@ -20,7 +20,10 @@ describe('site and survey lists', () => {
   it('reports for every site the levels and sources the database holds', async () => {
     const admin = await signIn(t.app, demoEmail('admin'));
     const orgId = admin.session.memberships[0]!.organisationId;
-    const { sites } = (await admin.agent.get(`/api/orgs/${orgId}/sites`).expect(200)).body as { sites: { id: string; levelCount: number; sourceCount: number }[] };
+    const listed = await admin.agent.get(`/api/orgs/${orgId}/sites`).expect(200);
+    // Per-user answers must never be kept by a browser or proxy cache.
+    expect(listed.headers['cache-control']).toBe('no-store');
+    const { sites } = listed.body as { sites: { id: string; levelCount: number; sourceCount: number }[] };
     expect(sites.length).toBeGreaterThan(0);
     for (const site of sites) {
       const levels = await t.pool.query<{ n: number }>('SELECT count(*)::int AS n FROM levels WHERE site_id = $1 AND NOT deleted', [site.id]);

@@ -7,4 +7,5 @@ export * from './bands';
 export * from './surveys';
 export * from './flags';
 export * from './log';
+export * from './sync';
 export * from './synced-tables';

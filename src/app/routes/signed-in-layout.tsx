@@ -10,6 +10,8 @@ import { Alert } from '@/components/alert';
 import { AppShell } from '@/components/layout/app-shell';
 import { PublicLayout } from '@/components/layout/public-layout';
 import { OrganisationSwitcher } from '@/features/auth/components/organisation-switcher';
+import { PendingSyncStatus } from '@/features/capture/components/pending-sync-status';
+import { SyncStatus } from '@/features/sync/components/sync-status';
 import { useActiveMembership } from '@/features/auth/data/active-organisation';
 import { useSession } from '@/features/auth/data/get-session';
 import { useSignOut } from '@/features/auth/data/sign-out';
@@ -73,6 +75,12 @@ export default function SignedInLayout() {
       organisation={<OrganisationSwitcher memberships={session.data.memberships} activeId={membership?.organisationId} onChoose={choose} />}
       signingOut={signOut.isPending}
       onSignOut={() => signOut.mutate()}
+      syncStatus={
+        <>
+          <PendingSyncStatus />
+          {membership && <SyncStatus orgId={membership.organisationId} />}
+        </>
+      }
       notices={
         persist.error ? (
           <Alert tone="warning" title="Not saved for offline use">

@@ -21,11 +21,13 @@ export interface AppShellProps {
   onSignOut: () => void;
   signingOut: boolean;
   notices?: ReactNode;
+  /** Sync state shown beside the connection state ("14 readings not yet synced"). */
+  syncStatus?: ReactNode;
   children: ReactNode;
 }
 
 /** The signed-in frame: brand, connection state, theme, navigation, who is signed in, and sign-out. */
-export function AppShell({ navItems, userName, roleLabel, organisation, onSignOut, signingOut, notices, children }: AppShellProps) {
+export function AppShell({ navItems, userName, roleLabel, organisation, onSignOut, signingOut, notices, syncStatus, children }: AppShellProps) {
   return (
     <div className="flex min-h-dvh flex-col">
       <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-surface focus:p-3">
@@ -39,6 +41,7 @@ export function AppShell({ navItems, userName, roleLabel, organisation, onSignOu
           </NavLink>
           <div className="ml-auto flex flex-wrap items-center gap-3">
             <OfflineIndicator />
+            {syncStatus}
             <ThemeToggle />
           </div>
         </div>
