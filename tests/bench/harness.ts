@@ -90,7 +90,7 @@ export function printTable(rows: readonly BenchRow[], title: string): string {
     line(head),
     widths.map((w) => '-'.repeat(w)).join('  '),
     ...body.map(line),
-    `(medians; baseline = a plain loop over the same arrays in the same run; sink ${sink === 0 ? 0 : 'ok'})`,
+    `(medians; baseline = the plain counterpart of each figure, measured in the same run — see each benchmark file; sink ${sink === 0 ? 0 : 'ok'})`,
   ].join('\n');
   console.log(text);
   return text;
