@@ -70,7 +70,7 @@ export type SweepRow = Sweep;
 
 export type AttachmentKind = 'photo' | 'trace';
 
-/** A file that belongs to a record and is uploaded by the sync before the record's mutation is sent. */
+/** A file that belongs to a record; the sync uploads it after the record itself has been pushed (the server needs the record, which names the file by its SHA-256, first). */
 export interface AttachmentRow {
   id: string;
   entity: 'field_readings' | 'sweeps';

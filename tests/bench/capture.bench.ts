@@ -206,12 +206,14 @@ async function main() {
     await field.fill((0.1 + (i % 50) * 0.01).toFixed(2));
     const ms = await page.evaluate(async () => {
       const list = document.querySelector('[data-testid="walk-list"]')!;
-      const before = list.querySelectorAll('[data-testid="walk-entry"]').length;
+      // The list shows the newest 100 entries, so wait for a new newest entry rather than a longer list.
+      const newestId = () => list.querySelector('[data-testid="walk-entry"]')?.getAttribute('data-entry-id') ?? null;
+      const before = newestId();
       const button = [...document.querySelectorAll('button')].find((b) => b.textContent === 'Save reading')!;
       const start = performance.now();
       const appeared = new Promise<void>((resolve) => {
         const check = () => {
-          if (list.querySelectorAll('[data-testid="walk-entry"]').length > before) {
+          if (newestId() !== before) {
             observer.disconnect();
             resolve();
           }
@@ -377,6 +379,13 @@ async function printProfile(cdp: CDPSession) {
 
 function row(figure: string, goal: number, measured: number, baseline: number): BenchRow {
   return { figure, goal, measured, baseline, ratio: baseline > 0 ? measured / baseline : Infinity, pass: measured <= goal };
+}
+
+// Ctrl-C or a timeout must not leave the browser, the cluster or the temp folders behind.
+for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+  process.once(signal, () => {
+    void cleanup().finally(() => process.exit(130));
+  });
 }
 
 main()
