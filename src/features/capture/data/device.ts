@@ -4,6 +4,15 @@ import { db, toCaptureError } from '@/db';
 const DEVICE_ID_KEY = 'deviceId';
 
 /** This install's own id, made once and kept in the store (walks record it; it never leaves with a wipe of caches). */
+/**
+ * The device id if one has been made, read-only: safe inside a live query, where Dexie refuses the
+ * read-write transaction getDeviceId needs to make one.
+ */
+export async function readDeviceId(): Promise<string | null> {
+  const row = await db.meta.get(DEVICE_ID_KEY);
+  return typeof row?.value === 'string' ? row.value : null;
+}
+
 export async function getDeviceId(): Promise<string> {
   try {
     return await db.transaction('rw', db.meta, async () => {
