@@ -12,9 +12,10 @@
  *
  * Repositories call `auditedWrite` for the common case (one synced record, one change, one audit row).
  */
-import { eq, sql } from 'drizzle-orm';
+import { and, desc, eq, sql, type SQL } from 'drizzle-orm';
+import type { AuditEntry } from '../../shared/schemas/audit';
 import type { DbOrTx, Tx } from './client';
-import { auditLog, changeLog, organisations } from './schema';
+import { auditLog, changeLog, organisations, users } from './schema';
 import type { SyncedEntity } from './schema/synced-tables';
 
 export class UnknownOrganisationError extends Error {
@@ -148,4 +149,30 @@ export async function auditedWrite<T>(
     requestId: input.requestId ?? null,
   });
   return { changeSeq, row };
+}
+
+/**
+ * An organisation's audit rows as the API shows them (AuditEntrySchema): newest first, with the
+ * actor's name, narrowed by `where` (e.g. the rows of one site and everything on it).
+ */
+export async function listAuditEntries(db: DbOrTx, organisationId: string, limit: number, where?: SQL): Promise<AuditEntry[]> {
+  const rows = await db
+    .select({
+      id: auditLog.id,
+      at: auditLog.at,
+      actorUserId: auditLog.actorUserId,
+      actorName: users.name,
+      action: auditLog.action,
+      entity: auditLog.entity,
+      entityId: auditLog.entityId,
+      before: auditLog.before,
+      after: auditLog.after,
+      requestId: auditLog.requestId,
+    })
+    .from(auditLog)
+    .leftJoin(users, eq(users.id, auditLog.actorUserId))
+    .where(and(eq(auditLog.organisationId, organisationId), where))
+    .orderBy(desc(auditLog.at), desc(auditLog.id))
+    .limit(limit);
+  return rows.map((row) => ({ ...row, id: String(row.id), at: row.at.toISOString() }));
 }

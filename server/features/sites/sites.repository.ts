@@ -4,8 +4,9 @@ import type { SiteSummary } from '../../../shared/schemas/home';
 import type { Level, LevelCreate, LevelUpdate, SiteCreate, SiteDetail, SiteUpdate } from '../../../shared/schemas/site';
 import type { AuditContext } from '../../lib/audit-context';
 import type { Db, DbOrTx } from '../../db/client';
+import { listAuditEntries } from '../../db/audit';
 import { planView } from '../../db/plan-view';
-import { auditLog, emitters, levels, plans, rooms, sites, sources, stations, surveyAssignments, surveys, users } from '../../db/schema';
+import { auditLog, emitters, levels, plans, rooms, sites, sources, stations, surveyAssignments, surveys } from '../../db/schema';
 import { createSynced, updateSynced } from '../../db/synced-write';
 
 type LevelRow = typeof levels.$inferSelect;
@@ -164,25 +165,7 @@ export function createSitesRepository(db: Db) {
         UNION ALL SELECT st.id::text FROM ${stations} st JOIN ${surveys} v ON v.id = st.survey_id WHERE st.organisation_id = ${org} AND v.site_id = ${siteId}
         UNION ALL SELECT a.id::text FROM ${surveyAssignments} a JOIN ${surveys} v ON v.id = a.survey_id WHERE a.organisation_id = ${org} AND v.site_id = ${siteId}
       )`;
-      const rows = await db
-        .select({
-          id: auditLog.id,
-          at: auditLog.at,
-          actorUserId: auditLog.actorUserId,
-          actorName: users.name,
-          action: auditLog.action,
-          entity: auditLog.entity,
-          entityId: auditLog.entityId,
-          before: auditLog.before,
-          after: auditLog.after,
-          requestId: auditLog.requestId,
-        })
-        .from(auditLog)
-        .leftJoin(users, eq(users.id, auditLog.actorUserId))
-        .where(and(eq(auditLog.organisationId, organisationId), sql`${auditLog.entityId} IN ${ids}`))
-        .orderBy(desc(auditLog.at), desc(auditLog.id))
-        .limit(limit);
-      return rows.map((row) => ({ ...row, id: String(row.id), at: row.at.toISOString() }));
+      return listAuditEntries(db, organisationId, limit, sql`${auditLog.entityId} IN ${ids}`);
     },
   };
 }
