@@ -1,4 +1,6 @@
 import { forwardRef, useId, type ReactNode, type SelectHTMLAttributes } from 'react';
+import { Alert } from '@/components/alert';
+import { Button } from '@/components/button';
 
 export interface SelectFieldProps extends SelectHTMLAttributes<HTMLSelectElement> {
   label: string;
@@ -59,3 +61,26 @@ export const CheckboxField = forwardRef<HTMLInputElement, { label: ReactNode; er
     </div>
   );
 });
+
+/** The foot of a capture form: why the last save failed, if it did, then Save and (when offered) Cancel. */
+export function FormActions({ submitError, busy, submitLabel, onCancel }: { submitError: string | null; busy: boolean; submitLabel: string; onCancel?: (() => void) | undefined }) {
+  return (
+    <>
+      {submitError && (
+        <Alert tone="danger" title="Not saved">
+          {submitError}
+        </Alert>
+      )}
+      <div className="flex flex-wrap gap-2">
+        <Button type="submit" busy={busy} busyLabel="Saving…" className="flex-1">
+          {submitLabel}
+        </Button>
+        {onCancel && (
+          <Button variant="secondary" onClick={onCancel}>
+            Cancel
+          </Button>
+        )}
+      </div>
+    </>
+  );
+}

@@ -3,7 +3,6 @@ import { memo, useEffect, useMemo, useRef, useState } from 'react';
 import { useForm, useWatch, type Resolver } from 'react-hook-form';
 import type { InstrumentRow, WatchBandRow } from '@/db';
 import { Alert } from '@/components/alert';
-import { Button } from '@/components/button';
 import { Field } from '@/components/field';
 import { formatFluxDensity } from '@shared/units';
 import { PROBE_ORIENTATIONS } from '@shared/schemas/vocabulary';
@@ -20,7 +19,7 @@ import {
   type ReadingFormValues,
 } from '../lib/reading-form';
 import { FeedbackPanel } from './feedback-panel';
-import { CheckboxField, SelectField } from './form-controls';
+import { CheckboxField, FormActions, SelectField } from './form-controls';
 
 export interface ReadingFormProps {
   /** Gaussmeters to choose from. */
@@ -220,21 +219,12 @@ export const ReadingForm = memo(function ReadingForm(props: ReadingFormProps) {
         {photo && <p className="text-sm text-fg-muted">{photo.name}: resized on this device before it is stored.</p>}
       </div>
 
-      {submitError && (
-        <Alert tone="danger" title="Not saved">
-          {submitError}
-        </Alert>
-      )}
-      <div className="flex flex-wrap gap-2">
-        <Button type="submit" busy={formState.isSubmitting} busyLabel="Saving…" className="flex-1">
-          {editing ? 'Save changes' : 'Save reading'}
-        </Button>
-        {props.onCancel && (
-          <Button variant="secondary" onClick={props.onCancel}>
-            Cancel
-          </Button>
-        )}
-      </div>
+      <FormActions
+        submitError={submitError}
+        busy={formState.isSubmitting}
+        submitLabel={editing ? 'Save changes' : 'Save reading'}
+        onCancel={props.onCancel}
+      />
     </form>
   );
 });

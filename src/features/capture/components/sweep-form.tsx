@@ -9,7 +9,7 @@ import { formatFrequency } from '@shared/units';
 import { DETECTORS } from '@shared/schemas/vocabulary';
 import { isCalibrationOverdue } from '../lib/calibration';
 import { checkTraceCsv, DETECTOR_LABELS, FREQUENCY_UNITS, SweepFormSchema, type ParsedSweep, type SweepFormValues, type TraceCheck } from '../lib/sweep-form';
-import { SelectField } from './form-controls';
+import { FormActions, SelectField } from './form-controls';
 import { FormSubmitError } from './reading-form';
 
 
@@ -196,21 +196,12 @@ export const SweepForm = memo(function SweepForm(props: SweepFormProps) {
         <textarea id="sweep-notes" rows={2} className="rounded-lg border-2 border-field-border bg-surface px-3 py-2 text-lg text-fg" {...register('notes')} />
       </div>
 
-      {submitError && (
-        <Alert tone="danger" title="Not saved">
-          {submitError}
-        </Alert>
-      )}
-      <div className="flex flex-wrap gap-2">
-        <Button type="submit" busy={formState.isSubmitting} busyLabel="Saving…" className="flex-1">
-          {editing ? 'Save changes' : 'Save sweep'}
-        </Button>
-        {props.onCancel && (
-          <Button variant="secondary" onClick={props.onCancel}>
-            Cancel
-          </Button>
-        )}
-      </div>
+      <FormActions
+        submitError={submitError}
+        busy={formState.isSubmitting}
+        submitLabel={editing ? 'Save changes' : 'Save sweep'}
+        onCancel={props.onCancel}
+      />
     </form>
   );
 });
