@@ -13,6 +13,11 @@ export const ASSIGNABLE_REVIEWER_ROLES: readonly Role[] = ['reviewer', 'admin'];
 const fields = {
   name: z.string().trim().min(1, 'Give the survey a name.').max(200),
   zoneSetId: UuidSchema.nullable().optional(),
+  /**
+   * The levels of the site this survey walks; the offline bundle carries only these. Left out when a
+   * survey is created, it is every level the site has at that moment.
+   */
+  levelIds: z.array(UuidSchema).min(1, 'Pick at least one level to survey.').max(200).optional(),
   species: z.array(SpeciesSchema).min(1, 'Pick at least one species.').max(7).default(['electron', 'proton']),
   maxHarmonic: z.number().int().min(1).max(50).default(3),
   /** Readings closer than this are grouped as repeats, m. */
@@ -31,6 +36,7 @@ export const SurveyUpdateSchema = z
   .object({
     name: fields.name.optional(),
     zoneSetId: fields.zoneSetId,
+    levelIds: fields.levelIds,
     species: z.array(SpeciesSchema).min(1, 'Pick at least one species.').max(7).optional(),
     maxHarmonic: z.number().int().min(1).max(50).optional(),
     repeatRadiusM: z.number().positive().max(100).optional(),
@@ -50,6 +56,7 @@ export const SurveySettingsSchema = z.object({
   name: z.string(),
   state: SurveyStateSchema,
   zoneSetId: UuidSchema.nullable(),
+  levelIds: z.array(UuidSchema),
   species: z.array(SpeciesSchema),
   maxHarmonic: z.number().int(),
   repeatRadiusM: z.number(),

@@ -165,8 +165,16 @@ describe('site setup', () => {
     await page.goto(siteUrl);
     await page.getByRole('link', { name: 'New survey' }).click();
     await page.getByLabel('Survey name').fill('Annexe commissioning survey');
+    // The site's levels are offered, all ticked; a survey must walk at least one.
+    const groundLevel = page.getByRole('group', { name: 'Levels to survey' }).getByRole('checkbox', { name: 'Ground floor' });
+    expect(await groundLevel.isChecked()).toBe(true);
+    await groundLevel.uncheck();
+    await page.getByRole('button', { name: 'Create survey' }).click();
+    await page.getByText('Pick at least one level to survey.').waitFor();
+    await groundLevel.check();
     await page.getByRole('button', { name: 'Create survey' }).click();
     await page.getByRole('heading', { name: 'Annexe commissioning survey' }).waitFor();
+    expect(await page.getByRole('group', { name: 'Levels to survey' }).getByRole('checkbox', { name: 'Ground floor' }).isChecked()).toBe(true);
     // Stored with the organisation's default zone set (the server reads a null one as "no safety lines").
     expect(await page.getByLabel('Zone set').locator('option:checked').textContent()).toMatch(/the organisation’s default/);
     await page.getByRole('checkbox', { name: new RegExp(DEMO_USERS.surveyor) }).check();

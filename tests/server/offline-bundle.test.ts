@@ -9,7 +9,7 @@ import { readingFieldTesla } from '../../shared/schemas/capture';
 import { OfflineBundleSchema, type OfflineBundle } from '../../shared/schemas/offline';
 import { seedDemo } from '../../server/db/seed/demo';
 import { demoEmail, expectError, KESTREL_ADMIN, signIn, type SignedIn } from '../setup/api-helpers';
-import { createTestApp, RELAXED_RATE_LIMITS, type InProcessApp } from '../setup/test-app';
+import { createTestApp, RELAXED_RATE_LIMITS, TRUSTED_ORIGIN, type InProcessApp } from '../setup/test-app';
 
 let t: InProcessApp;
 let sql: pg.Client;
@@ -92,10 +92,11 @@ describe('what the bundle holds matches the database', () => {
     expect(bundle.site.id).toBe(survey!.site_id);
     const ids = async (table: string, where: string) => (await rows<{ id: string }>(`SELECT id FROM ${table} WHERE ${where} AND NOT deleted ORDER BY id`, [survey!.site_id])).map((r) => r.id);
     const sorted = (list: { id: string }[]) => list.map((r) => r.id).sort();
-    expect(sorted(bundle.levels)).toEqual(await ids('levels', 'site_id = $1 AND NOT archived'));
+    const walked = `site_id = $1 AND NOT archived AND id = ANY((SELECT level_ids FROM surveys WHERE id = '${openSurveyId}')::uuid[])`;
+    expect(sorted(bundle.levels)).toEqual(await ids('levels', walked));
     expect(bundle.levels.length).toBeGreaterThan(0);
-    expect(sorted(bundle.plans)).toEqual(await ids('plans', 'level_id IN (SELECT id FROM levels WHERE site_id = $1 AND NOT deleted AND NOT archived)'));
-    expect(sorted(bundle.rooms)).toEqual(await ids('rooms', 'level_id IN (SELECT id FROM levels WHERE site_id = $1 AND NOT deleted AND NOT archived)'));
+    expect(sorted(bundle.plans)).toEqual(await ids('plans', `level_id IN (SELECT id FROM levels WHERE ${walked} AND NOT deleted)`));
+    expect(sorted(bundle.rooms)).toEqual(await ids('rooms', `level_id IN (SELECT id FROM levels WHERE ${walked} AND NOT deleted)`));
     expect(sorted(bundle.sources)).toEqual(await ids('sources', 'site_id = $1'));
     expect(sorted(bundle.emitters)).toEqual(await ids('emitters', 'room_id IN (SELECT r.id FROM rooms r JOIN levels l ON l.id = r.level_id WHERE l.site_id = $1 AND NOT r.deleted)'));
     for (const plan of bundle.plans) expect(plan.imageUrl).toBe(`/api/orgs/${orgId}/plans/${plan.id}/image?variant=device`);
@@ -175,5 +176,26 @@ describe('what the bundle holds matches the database', () => {
     expect(after.fieldReadings.some((r) => r.id === readings[0]!.id)).toBe(false);
     expect(after.stations.find((s) => s.id === station!.station_id)!.latestFieldT!).toBeCloseTo(readings[1]!.field_t, 15);
     await sql.query(`UPDATE field_readings SET deleted = false, revision = revision - 1 WHERE id = $1`, [readings[0]!.id]);
+  });
+});
+
+describe('a survey that walks some of its site’s levels', () => {
+  it('carries only those levels, with their plans and rooms, and every source of the site', async () => {
+    const admin = sessions.get(demoEmail('admin'))!;
+    const siteId = bundle.site.id;
+    const siteLevels = await rows<{ id: string; name: string }>(`SELECT id, name FROM levels WHERE site_id = $1 AND NOT deleted AND NOT archived ORDER BY ordinal`, [siteId]);
+    expect(siteLevels.length).toBeGreaterThan(1);
+    const chosen = siteLevels[1]!;
+    const created = await admin.agent
+      .post(`/api/orgs/${orgId}/sites/${siteId}/surveys`)
+      .set('Origin', TRUSTED_ORIGIN)
+      .send({ name: 'One floor only', levelIds: [chosen.id] })
+      .expect(201);
+    const partial = OfflineBundleSchema.parse((await admin.agent.get(url(created.body.id)).expect(200)).body);
+    expect(partial.levels.map((l) => l.id)).toEqual([chosen.id]);
+    expect(partial.plans.every((p) => p.levelId === chosen.id)).toBe(true);
+    expect(partial.plans.length).toBe((await rows(`SELECT id FROM plans WHERE level_id = $1 AND NOT deleted`, [chosen.id])).length);
+    expect(new Set(partial.rooms.map((r) => r.levelId))).toEqual(new Set([chosen.id]));
+    expect(partial.sources.length).toBe(bundle.sources.length);
   });
 });

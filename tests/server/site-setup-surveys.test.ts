@@ -109,4 +109,47 @@ describe('survey planning', () => {
     expect(settings.team.surveyors).toHaveLength(1);
     expectError(await put(viewer, `/surveys/${survey.id}/assignments`, { surveyors: [] }), 403, 'FORBIDDEN');
   });
+
+  it('walks the levels chosen for it: all of the site’s by default, checked against the site, kept while stations stand on them', async () => {
+    const ground = (await post(admin, `/sites/${siteId}/levels`, { name: 'Ground', ordinal: 0 }).expect(201)).body.id as string;
+    const upper = (await post(admin, `/sites/${siteId}/levels`, { name: 'Upper', ordinal: 1 }).expect(201)).body.id as string;
+    const loft = (await post(admin, `/sites/${siteId}/levels`, { name: 'Loft', ordinal: 2 }).expect(201)).body.id as string;
+    await patch(admin, `/levels/${loft}`, { archived: true }).expect(200);
+
+    // Left out: every live level of the site, bottom floor first, the archived loft not among them.
+    const all = SurveySettingsSchema.parse((await post(admin, `/sites/${siteId}/surveys`, { name: 'Whole building' }).expect(201)).body);
+    expect(all.levelIds).toEqual([ground, upper]);
+
+    // Named: kept in floor order whatever order they came in, duplicates dropped.
+    const some = SurveySettingsSchema.parse((await post(admin, `/sites/${siteId}/surveys`, { name: 'Upper and ground', levelIds: [upper, ground, upper] }).expect(201)).body);
+    expect(some.levelIds).toEqual([ground, upper]);
+
+    // A level of another site, an empty list, and a malformed id are refused with the field named.
+    const otherSite = (await post(admin, '/sites', { name: 'Elsewhere' }).expect(201)).body.id;
+    const foreign = (await post(admin, `/sites/${otherSite}/levels`, { name: 'Their ground' }).expect(201)).body.id;
+    const wrong = await post(admin, `/sites/${siteId}/surveys`, { name: 'x', levelIds: [ground, foreign] });
+    expectError(wrong, 400, 'VALIDATION_FAILED');
+    expect(wrong.body.error).toMatchObject({ message: 'One of the chosen levels is not a level of this site.', details: { levelIds: [foreign] } });
+    const none = await post(admin, `/sites/${siteId}/surveys`, { name: 'x', levelIds: [] });
+    expectError(none, 400, 'VALIDATION_FAILED');
+    expect(none.body.error.details.issues[0]).toMatchObject({ path: 'levelIds', message: 'Pick at least one level to survey.' });
+    expectError(await patch(admin, `/surveys/${some.id}`, { levelIds: ['not-a-level'] }), 400, 'VALIDATION_FAILED');
+
+    // Narrowing is fine until a station of the survey stands on the level being taken out.
+    const narrowed = SurveySettingsSchema.parse((await patch(admin, `/surveys/${some.id}`, { levelIds: [upper] }).expect(200)).body);
+    expect(narrowed.levelIds).toEqual([upper]);
+    await sql(
+      t.databaseUrl,
+      `INSERT INTO stations (id, organisation_id, change_seq, survey_id, level_id, x_m, y_m) VALUES (gen_random_uuid(), $1, 900001, $2, $3, 1, 2), (gen_random_uuid(), $1, 900002, $2, $3, 3, 4)`,
+      [orgId, some.id, upper],
+    );
+    const refused = await patch(admin, `/surveys/${some.id}`, { levelIds: [ground] });
+    expectError(refused, 409, 'CONFLICT');
+    expect(refused.body.error.message).toBe('These levels already have stations in this survey and stay in it: Upper (2 stations).');
+    expect(SurveySettingsSchema.parse((await admin.agent.get(`/api/orgs/${orgId}/surveys/${some.id}/settings`).expect(200)).body).levelIds).toEqual([upper]);
+    // Widening again keeps the level with stations.
+    expect(SurveySettingsSchema.parse((await patch(admin, `/surveys/${some.id}`, { levelIds: [ground, upper] }).expect(200)).body).levelIds).toEqual([ground, upper]);
+    // The change is audited like every other edit of the survey.
+    expect(await countRows(t.databaseUrl, 'audit_log', `entity = 'surveys' AND entity_id = '${some.id}' AND action = 'update'`)).toBe(2);
+  });
 });

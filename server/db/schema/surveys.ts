@@ -61,6 +61,11 @@ export const surveys = pgTable(
     name: text('name').notNull(),
     state: surveyStateEnum('state').notNull().default('open'),
     zoneSetId: uuid('zone_set_id'),
+    /**
+     * The levels of the site this survey walks (issue 6 §8). Checked against the site's levels by the
+     * service (an array cannot carry a foreign key); the offline bundle sends only these levels.
+     */
+    levelIds: uuid('level_ids').array().notNull().default(sql`'{}'::uuid[]`),
     startsOn: date('starts_on', { mode: 'string' }),
     endsOn: date('ends_on', { mode: 'string' }),
     /** Species whose cyclotron lines are predicted for this survey. */

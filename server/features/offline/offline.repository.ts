@@ -47,16 +47,30 @@ export function createOfflineRepository(db: Db) {
       return Boolean(row);
     },
 
-    /** Everything on the survey's site and in the survey, read in one repeatable-read snapshot so the parts agree. */
-    async loadBundle(organisationId: string, survey: { id: string; siteId: string; zoneSetId: string | null }) {
+    /**
+     * Everything on the survey's site and in the survey, read in one repeatable-read snapshot so the
+     * parts agree. Only the levels the survey walks come with their plans and rooms; the site's
+     * sources all come (a magnet on another floor still sets the field here).
+     */
+    async loadBundle(organisationId: string, survey: { id: string; siteId: string; zoneSetId: string | null; levelIds: string[] }) {
       return db.transaction(
         async (tx) => {
           const [site] = await tx.select().from(sites).where(and(eq(sites.organisationId, organisationId), eq(sites.id, survey.siteId))).limit(1);
-          const levelRows = await tx
-            .select()
-            .from(levels)
-            .where(and(eq(levels.organisationId, organisationId), eq(levels.siteId, survey.siteId), eq(levels.deleted, false), eq(levels.archived, false)))
-            .orderBy(asc(levels.ordinal), asc(levels.name));
+          const levelRows = survey.levelIds.length
+            ? await tx
+                .select()
+                .from(levels)
+                .where(
+                  and(
+                    eq(levels.organisationId, organisationId),
+                    eq(levels.siteId, survey.siteId),
+                    inArray(levels.id, survey.levelIds),
+                    eq(levels.deleted, false),
+                    eq(levels.archived, false),
+                  ),
+                )
+                .orderBy(asc(levels.ordinal), asc(levels.name))
+            : [];
           const levelIds = levelRows.map((l) => l.id);
           const planRows = levelIds.length
             ? await tx.select().from(plans).where(and(eq(plans.organisationId, organisationId), inArray(plans.levelId, levelIds), eq(plans.deleted, false)))

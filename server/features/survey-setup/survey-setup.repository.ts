@@ -1,9 +1,9 @@
-import { and, asc, desc, eq, inArray } from 'drizzle-orm';
+import { and, asc, count, desc, eq, inArray } from 'drizzle-orm';
 import type { Role } from '../../../shared/schemas/common';
 import type { SurveySettings, TeamMember } from '../../../shared/schemas/survey-setup';
 import type { AuditContext } from '../../lib/audit-context';
 import type { Db, DbOrTx } from '../../db/client';
-import { memberships, sites, surveyAssignments, surveys, users, zoneSets } from '../../db/schema';
+import { levels, memberships, sites, stations, surveyAssignments, surveys, users, zoneSets } from '../../db/schema';
 import { createSynced, tombstoneSynced, updateSynced } from '../../db/synced-write';
 
 type SurveyRow = typeof surveys.$inferSelect;
@@ -29,6 +29,7 @@ export function createSurveySetupRepository(db: Db) {
       name: row.name,
       state: row.state,
       zoneSetId: row.zoneSetId,
+      levelIds: row.levelIds,
       species: row.species,
       maxHarmonic: row.maxHarmonic,
       repeatRadiusM: row.repeatRadiusM,
@@ -62,6 +63,25 @@ export function createSurveySetupRepository(db: Db) {
         .where(and(eq(sites.organisationId, organisationId), eq(sites.id, siteId), eq(sites.deleted, false)))
         .limit(1);
       return row ?? null;
+    },
+
+    /** The site's live levels (archived ones included, flagged), bottom floor first. */
+    async siteLevels(organisationId: string, siteId: string) {
+      return db
+        .select({ id: levels.id, name: levels.name, archived: levels.archived })
+        .from(levels)
+        .where(and(eq(levels.organisationId, organisationId), eq(levels.siteId, siteId), eq(levels.deleted, false)))
+        .orderBy(asc(levels.ordinal), asc(levels.name));
+    },
+
+    /** How many live stations of the survey stand on each of `levelIds` (levels with none are left out). */
+    async stationCounts(organisationId: string, surveyId: string, levelIds: string[]) {
+      if (levelIds.length === 0) return [];
+      return db
+        .select({ levelId: stations.levelId, stations: count() })
+        .from(stations)
+        .where(and(eq(stations.organisationId, organisationId), eq(stations.surveyId, surveyId), inArray(stations.levelId, levelIds), eq(stations.deleted, false)))
+        .groupBy(stations.levelId);
     },
 
     async zoneSets(organisationId: string) {

@@ -2,7 +2,8 @@
  * Planning surveys: create one on a site, edit it while it is open, set its team. Surveyors must be
  * members whose role walks surveys (surveyor, emc), reviewers members who review (reviewer, admin).
  * Newly assigned surveyors get an e-mail with a link to /surveys/<id>; someone already on the team is
- * not mailed again. A survey covers every level of its site (the table has no per-level list).
+ * not mailed again. A survey walks the levels chosen for it (all the site's levels when none are
+ * named at creation); a level that already has the survey's stations cannot be taken out of it.
  */
 import type { SpeciesSchema } from '../../../shared/schemas/vocabulary';
 import {
@@ -39,6 +40,18 @@ export function createSurveySetupService(deps: { repo: SurveySetupRepository; ma
 
   const dedupe = (species: Species[]) => [...new Set(species)];
 
+  /** The chosen levels, in the site's floor order, after checking each is a live level of the site. */
+  async function checkLevels(organisationId: string, siteId: string, levelIds: string[] | undefined, creating: boolean): Promise<string[] | undefined> {
+    if (levelIds === undefined && !creating) return undefined;
+    const siteLevels = await repo.siteLevels(organisationId, siteId);
+    if (levelIds === undefined) return siteLevels.filter((l) => !l.archived).map((l) => l.id);
+    const wanted = new Set(levelIds);
+    const known = new Set(siteLevels.map((l) => l.id));
+    const unknown = [...wanted].filter((id) => !known.has(id));
+    if (unknown.length > 0) throw invalid('levelIds', unknown.length === 1 ? 'One of the chosen levels is not a level of this site.' : `${unknown.length} of the chosen levels are not levels of this site.`, { levelIds: unknown });
+    return siteLevels.filter((l) => wanted.has(l.id)).map((l) => l.id);
+  }
+
   return {
     zoneSets: (organisationId: string) => repo.zoneSets(organisationId),
 
@@ -49,6 +62,7 @@ export function createSurveySetupService(deps: { repo: SurveySetupRepository; ma
       const values: SurveyValues = {
         name: input.name,
         zoneSetId: await checkZoneSet(organisationId, input.zoneSetId),
+        levelIds: (await checkLevels(organisationId, siteId, input.levelIds, true))!,
         species: dedupe(input.species),
         maxHarmonic: input.maxHarmonic,
         repeatRadiusM: input.repeatRadiusM,
@@ -73,6 +87,17 @@ export function createSurveySetupService(deps: { repo: SurveySetupRepository; ma
       if (startsOn && endsOn && startsOn > endsOn) throw invalid('endsOn', 'The end date must not be before the start date.');
       const values: Partial<SurveyValues> = { ...patch, ...(patch.species ? { species: dedupe(patch.species) } : {}) };
       if (patch.zoneSetId !== undefined) values.zoneSetId = await checkZoneSet(organisationId, patch.zoneSetId);
+      if (patch.levelIds !== undefined) {
+        const levelIds = (await checkLevels(organisationId, before.siteId, patch.levelIds, false))!;
+        const dropped = before.levelIds.filter((id) => !levelIds.includes(id));
+        const inUse = await repo.stationCounts(organisationId, surveyId, dropped);
+        if (inUse.length > 0) {
+          const names = new Map((await repo.siteLevels(organisationId, before.siteId)).map((l) => [l.id, l.name]));
+          const which = inUse.map((u) => `${names.get(u.levelId) ?? 'a level'} (${u.stations} station${u.stations === 1 ? '' : 's'})`).join(', ');
+          throw new AppError('CONFLICT', `These levels already have stations in this survey and stay in it: ${which}.`, { levelIds: inUse.map((u) => u.levelId) });
+        }
+        values.levelIds = levelIds;
+      }
       const result = await repo.update(organisationId, surveyId, values, ctx);
       if (result === 'not_open') throw new AppError('CONFLICT', 'This survey has been submitted or signed off; its settings can no longer change.');
       if (!result) throw notFound('That survey');

@@ -6,6 +6,8 @@ import { SPECIES } from '@shared/schemas/vocabulary';
 import { formatLength, lengthTextSchema } from '@shared/units';
 import { Button } from '@/components/button';
 import { Field } from '@/components/field';
+import type { Level } from '@shared/schemas/site';
+import { useSite } from '../data/get-site';
 import { useZoneSets } from '../data/list-zone-sets';
 import { useSaveSurvey } from '../data/save-survey';
 import { checkedBy, emptyToNull, reportFormError } from './form-errors';
@@ -20,6 +22,8 @@ import { SelectField } from './select-field';
 const SurveyFormSchema = z
   .object({
     ...SurveyCreateSchema.shape,
+    // One checkbox alone reads as its value (or false) rather than as a list.
+    levelIds: z.preprocess((v) => (Array.isArray(v) ? v : typeof v === 'string' ? [v] : []), z.array(z.string())),
     repeatRadiusM: lengthTextSchema,
     maxHarmonic: z.coerce.number<string>().int('A whole number, please.'),
   })
@@ -32,7 +36,7 @@ function lengthForEditing(lengthM: number): string {
 
 type ZoneSet = z.infer<typeof ZoneSetSchema>;
 
-const FIELDS = ['name', 'zoneSetId', 'species', 'maxHarmonic', 'repeatRadiusM', 'startsOn', 'endsOn', 'notes'] as const;
+const FIELDS = ['name', 'zoneSetId', 'levelIds', 'species', 'maxHarmonic', 'repeatRadiusM', 'startsOn', 'endsOn', 'notes'] as const;
 
 /**
  * The zone sets must be on the screen before the form is: the <select> is uncontrolled, so options
@@ -40,17 +44,22 @@ const FIELDS = ['name', 'zoneSetId', 'species', 'maxHarmonic', 'repeatRadiusM', 
  */
 export function SurveyForm(props: { organisationId: string; siteId: string; survey?: SurveySettings; onSaved: (survey: SurveySettings) => void }) {
   const zoneSets = useZoneSets(props.organisationId);
+  const site = useSite(props.organisationId, props.siteId);
   if (!zoneSets.data) return <QueryState label="zone sets" query={zoneSets} />;
-  return <SurveyFormFields {...props} zoneSets={zoneSets.data.zoneSets} />;
+  if (!site.data) return <QueryState label="the site's levels" query={site} />;
+  return <SurveyFormFields {...props} zoneSets={zoneSets.data.zoneSets} levels={site.data.levels} />;
 }
 
-function SurveyFormFields({ organisationId, siteId, survey, onSaved, zoneSets }: {
+function SurveyFormFields({ organisationId, siteId, survey, onSaved, zoneSets, levels }: {
   organisationId: string;
   siteId: string;
   survey?: SurveySettings;
   onSaved: (survey: SurveySettings) => void;
   zoneSets: ZoneSet[];
+  levels: Level[];
 }) {
+  // Archived levels are offered only when the survey already walks them, so they can be kept.
+  const levelChoices = levels.filter((l) => !l.archived || survey?.levelIds.includes(l.id));
   const save = useSaveSurvey(organisationId, siteId);
   // The server reads a null zone set as "none" (stations get no safety lines), not as "the default",
   // so a new survey starts on the organisation's default set and "none" is offered only when it is
@@ -66,6 +75,7 @@ function SurveyFormFields({ organisationId, siteId, survey, onSaved, zoneSets }:
     defaultValues: {
       name: survey?.name ?? '',
       zoneSetId: survey ? survey.zoneSetId : defaultZoneSetId,
+      levelIds: survey ? survey.levelIds : levelChoices.map((l) => l.id),
       species: survey?.species ?? ['electron', 'proton'],
       maxHarmonic: String(survey?.maxHarmonic ?? 3),
       repeatRadiusM: survey ? lengthForEditing(survey.repeatRadiusM) : '30 cm',
@@ -94,6 +104,30 @@ function SurveyFormFields({ organisationId, siteId, survey, onSaved, zoneSets }:
       <Field label="End date (optional)" type="date" error={errors.endsOn?.message} {...register('endsOn', { setValueAs: emptyToNull })} />
       <Field label="Repeat-reading radius" hint="Readings closer than this are repeats: 30 cm, 0.5 m" autoComplete="off" error={errors.repeatRadiusM?.message} {...register('repeatRadiusM')} />
       <Field label="Highest harmonic to predict" type="number" inputMode="numeric" min={1} max={50} error={errors.maxHarmonic?.message} {...register('maxHarmonic')} />
+      <fieldset className="flex flex-col gap-1 sm:col-span-2" aria-describedby={errors.levelIds ? 'levels-error' : 'levels-hint'}>
+        <legend className="font-bold">Levels to survey</legend>
+        <p id="levels-hint" className="text-sm text-fg-muted">
+          Surveyors take only these levels' plans and rooms offline. A level added to the site later is not in this survey until you tick it here.
+        </p>
+        {levelChoices.length === 0 ? (
+          <p className="text-sm font-bold">This site has no levels yet: add a level (with its plan) to the site first.</p>
+        ) : (
+          <div className="flex flex-wrap gap-2">
+            {levelChoices.map((level) => (
+              <label key={level.id} className="inline-flex min-h-touch items-center gap-2 rounded-lg border-2 border-field-border px-3">
+                <input type="checkbox" value={level.id} className="h-6 w-6 accent-accent" {...register('levelIds')} />
+                {level.name}
+                {level.archived ? ' (archived)' : ''}
+              </label>
+            ))}
+          </div>
+        )}
+        {errors.levelIds && (
+          <p id="levels-error" className="text-sm font-bold text-danger">
+            {errors.levelIds.message}
+          </p>
+        )}
+      </fieldset>
       <fieldset className="flex flex-col gap-1 sm:col-span-2" aria-describedby={errors.species ? 'species-error' : undefined}>
         <legend className="font-bold">Species whose lines are predicted</legend>
         <div className="flex flex-wrap gap-2">
@@ -111,7 +145,6 @@ function SurveyFormFields({ organisationId, siteId, survey, onSaved, zoneSets }:
         )}
       </fieldset>
       <Field label="Notes (optional)" className="sm:col-span-2" error={errors.notes?.message} {...register('notes', { setValueAs: emptyToNull })} />
-      <p className="text-sm text-fg-muted sm:col-span-2">A survey covers every level of its site.</p>
       <div className="sm:col-span-2">
         <Button type="submit" busy={save.isPending} busyLabel="Saving…">
           {survey ? 'Save settings' : 'Create survey'}
