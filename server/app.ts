@@ -49,6 +49,9 @@ import roomsRouter from './features/rooms/rooms.router';
 import { createRoomsRepository } from './features/rooms/rooms.repository';
 import { createRoomsService } from './features/rooms/rooms.service';
 import sourcesRouter from './features/sources/sources.router';
+import watchBandsRouter from './features/watch-bands/watch-bands.router';
+import { createWatchBandsRepository } from './features/watch-bands/watch-bands.repository';
+import { createWatchBandsService } from './features/watch-bands/watch-bands.service';
 import { createSourcesRepository } from './features/sources/sources.repository';
 import { createSourcesService } from './features/sources/sources.service';
 import surveySetupRouter from './features/survey-setup/survey-setup.router';
@@ -152,6 +155,8 @@ export function createApp(deps: AppDeps): FringewalkApp {
   api.use(roomsRouter({ rooms: createRoomsService(createRoomsRepository(deps.db)), guards }));
   api.use(sourcesRouter({ sources: createSourcesService(createSourcesRepository(deps.db)), guards }));
   api.use(emittersRouter({ emitters: createEmittersService(createEmittersRepository(deps.db)), guards }));
+  // EMC (issue 8): watch bands.
+  api.use(watchBandsRouter({ watchBands: createWatchBandsService(createWatchBandsRepository(deps.db)), guards }));
   api.use(
     instrumentsRouter({
       instruments: createInstrumentsService({ repo: createInstrumentsRepository(deps.db), storage, mailer: deps.mailer, publicUrl: deps.publicUrl, logger: deps.logger }),

@@ -15,6 +15,7 @@ export const NAV_SECTIONS: readonly NavSection[] = [
   { to: '/', label: 'Home', end: true, roles: ROLES },
   { to: '/sites', label: 'Site setup', roles: ['admin', 'reviewer'] },
   { to: '/instruments', label: 'Instruments', roles: ['admin', 'reviewer', 'emc'] },
+  { to: '/watch-bands', label: 'Watch bands', roles: ['admin', 'reviewer', 'emc'] },
   { to: '/dev/mail', label: 'Dev mail', roles: ['admin'], needs: 'dev-mail' },
 ];
 

@@ -42,6 +42,7 @@ export const router = createBrowserRouter([
           { path: '/sites/:siteId/new-survey', element: <SurveySetupNewRoute />, errorElement },
           { path: '/survey-setup/:surveyId', element: <SurveySetupRoute />, errorElement },
           { path: '/instruments', element: <InstrumentsRoute />, errorElement },
+          { path: '/watch-bands', lazy: async () => ({ Component: (await import('./routes/watch-bands')).default }), errorElement },
           { path: '/surveys/:surveyId', element: <SurveyRoute />, errorElement },
           // Capture carries Leaflet and the forms: loaded when opened (the service worker precaches the chunk).
           { path: '/surveys/:surveyId/capture', lazy: async () => ({ Component: (await import('./routes/capture')).default }), errorElement },

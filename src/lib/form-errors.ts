@@ -1,3 +1,4 @@
+import { z } from 'zod';
 import type { FieldValues, Path, UseFormSetError } from 'react-hook-form';
 import { CLIENT_ERROR_CODES, fieldIssues, isApiRequestError } from './api';
 
@@ -21,4 +22,25 @@ export function applyRequestError<T extends FieldValues>(
   });
   if (issues.length > 0 && unplaced.length === 0) return null;
   return unplaced[0]?.message ?? error.message;
+}
+
+/** Empty strings from text inputs mean "not given". */
+export const emptyToNull = (value: unknown) => (typeof value === 'string' && value.trim() === '' ? null : value);
+export const toNumberOrNull = (value: unknown) => {
+  if (typeof value === 'number') return value;
+  if (typeof value !== 'string' || value.trim() === '') return null;
+  return Number(value);
+};
+
+/**
+ * A refinement step that runs a shared schema over a form's converted values, so the form checks
+ * exactly what the server will (cross-field rules included), with the same messages and paths.
+ */
+export function checkedBy<S extends z.ZodType>(schema: S) {
+  return (value: unknown, ctx: z.RefinementCtx): z.output<S> => {
+    const result = schema.safeParse(value);
+    if (result.success) return result.data;
+    for (const issue of result.error.issues) ctx.addIssue({ code: 'custom', message: issue.message, path: issue.path });
+    return z.NEVER;
+  };
 }

@@ -4,11 +4,14 @@ import { navItemsFor } from '@/app/navigation';
 
 const labels = (...args: Parameters<typeof navItemsFor>) => navItemsFor(...args).map((item) => item.label);
 
-/** What each role may reach (README "Roles"): site setup for admins and reviewers, instruments for those who keep or read them. */
+/**
+ * What each role may reach (README "Roles"): site setup for admins and reviewers, instruments and
+ * watch bands for those who keep or read them.
+ */
 const EXPECTED: Record<Role, string[]> = {
-  admin: ['Home', 'Site setup', 'Instruments'],
-  reviewer: ['Home', 'Site setup', 'Instruments'],
-  emc: ['Home', 'Instruments'],
+  admin: ['Home', 'Site setup', 'Instruments', 'Watch bands'],
+  reviewer: ['Home', 'Site setup', 'Instruments', 'Watch bands'],
+  emc: ['Home', 'Instruments', 'Watch bands'],
   surveyor: ['Home'],
   viewer: ['Home'],
 };

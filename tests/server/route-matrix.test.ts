@@ -50,6 +50,9 @@ interface SetupContext {
 
 const WRITERS: Role[] = ['admin', 'reviewer'];
 const writer = (who: Who) => who === 'admin' || who === 'reviewer';
+const BAND_KEEPERS: Role[] = ['emc', 'admin'];
+let mriScanners = 0;
+const matrixBand = (name: string) => ({ name, lowerHz: 700e6, upperHz: 701e6, reason: 'Matrix', source: 'Invented test data', severity: 'low' });
 const ANTENNA_CSV = Buffer.from('frequency_mhz,antenna_factor_db_per_m\n30,18.2\n300,14.1\n');
 
 interface Prepared {
@@ -176,6 +179,37 @@ const MATRIX: Row[] = [
     prepare: async (ctx, who) => ({
       params: { roomId: writer(who) ? await ctx.setup.create(`/levels/${ctx.setup.levelId}/rooms`, { name: ctx.unique(), polygonM: [[30, 30], [31, 30], [31, 31]] }) : ctx.setup.roomId },
     }),
+  },
+  // Watch bands (issue 8 §1): read by every member; kept by EMC engineers and admins.
+  { method: 'GET', path: '/api/orgs/:orgId/watch-bands', expect: members(200) },
+  { method: 'POST', path: '/api/orgs/:orgId/watch-bands', expect: only(BAND_KEEPERS, 201), prepare: (ctx) => ({ body: matrixBand(ctx.unique()) }) },
+  { method: 'GET', path: '/api/orgs/:orgId/watch-bands/export.csv', expect: members(200) },
+  {
+    method: 'POST',
+    path: '/api/orgs/:orgId/watch-bands/import',
+    expect: only(BAND_KEEPERS),
+    prepare: (ctx) => ({ body: { mode: 'all', csv: `name,lower_MHz,upper_MHz,reason,source,severity\n${ctx.unique()},700,701,Matrix,Invented,low\n` } }),
+  },
+  { method: 'POST', path: '/api/orgs/:orgId/watch-bands/starter-set', expect: only(BAND_KEEPERS) },
+  {
+    method: 'PATCH',
+    path: '/api/orgs/:orgId/watch-bands/:watchBandId',
+    expect: only(BAND_KEEPERS),
+    prepare: async (ctx) => ({ params: { watchBandId: await ctx.setup.create('/watch-bands', matrixBand(ctx.unique())) }, body: { severity: 'high' } }),
+  },
+  {
+    method: 'DELETE',
+    path: '/api/orgs/:orgId/watch-bands/:watchBandId',
+    expect: only(BAND_KEEPERS, 204),
+    prepare: async (ctx) => ({ params: { watchBandId: await ctx.setup.create('/watch-bands', matrixBand(ctx.unique())) } }),
+  },
+  { method: 'GET', path: '/api/orgs/:orgId/sites/:siteId/mri-bands', expect: members(200) },
+  {
+    method: 'POST',
+    path: '/api/orgs/:orgId/sites/:siteId/mri-bands/:sourceId',
+    expect: only(BAND_KEEPERS, 201),
+    // A fresh scanner of a field of its own each time: a receive band (same edges) can be added once.
+    prepare: async (ctx) => ({ params: { sourceId: await ctx.setup.create(`/sites/${ctx.siteId}/sources`, { name: ctx.unique(), kind: 'mri', nominalFieldT: 1 + (mriScanners += 1) / 10 }) } }),
   },
   { method: 'GET', path: '/api/orgs/:orgId/sites/:siteId/sources', expect: members(200) },
   { method: 'POST', path: '/api/orgs/:orgId/sites/:siteId/sources', expect: only(WRITERS, 201), prepare: (ctx) => ({ body: { name: ctx.unique(), kind: 'other', nominalFieldT: 0.5 } }) },

@@ -8,7 +8,7 @@ import { useSiteAudit } from '@/features/site-setup/data/get-site-audit';
 import { useSite } from '@/features/site-setup/data/get-site';
 import { useUpdateSite } from '@/features/site-setup/data/update-site';
 import { AuditList } from '@/features/site-setup/components/audit-list';
-import { ConfirmButton } from '@/features/site-setup/components/confirm-button';
+import { ConfirmButton } from '@/components/confirm-button';
 import { canEditSites, reportFormError } from '@/features/site-setup/components/form-errors';
 import { LevelForm } from '@/features/site-setup/components/level-form';
 import { QueryState } from '@/features/site-setup/components/query-state';

@@ -13,7 +13,7 @@ import { useSaveEmitter } from '../data/save-emitter';
 import { formatPowerPerVolume } from './emission-figures';
 import { emptyToNull, reportFormError } from './form-errors';
 import { EMITTER_KIND_LABELS, ENERGY_KIND_LABELS } from './labels';
-import { SelectField } from './select-field';
+import { SelectField } from '@/components/select-field';
 
 /** The shared schema with the energy typed with its unit ("10 eV", "2 keV"), stored in eV. */
 const EmitterFormSchema = EmitterCreateSchema.extend({

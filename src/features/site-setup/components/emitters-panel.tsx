@@ -3,7 +3,7 @@ import { Button } from '@/components/button';
 import { useDeleteEmitter } from '../data/delete-emitter';
 import { useEmitters } from '../data/list-emitters';
 import { useRooms } from '../data/list-rooms';
-import { ConfirmButton } from './confirm-button';
+import { ConfirmButton } from '@/components/confirm-button';
 import { EmissionFigures } from './emission-figures';
 import { EmitterForm } from './emitter-form';
 import { EMITTER_KIND_LABELS, ENERGY_KIND_LABELS } from './labels';

@@ -1,4 +1,3 @@
-import { z } from 'zod';
 import type { FieldValues, Path, UseFormSetError } from 'react-hook-form';
 import type { Role } from '@shared/schemas/common';
 import { applyRequestError } from '@/lib/form-errors';
@@ -17,23 +16,4 @@ export function canEditSites(role: Role | undefined): boolean {
   return role === 'admin' || role === 'reviewer';
 }
 
-/** Empty strings from text inputs mean "not given". */
-export const emptyToNull = (value: unknown) => (typeof value === 'string' && value.trim() === '' ? null : value);
-export const toNumberOrNull = (value: unknown) => {
-  if (typeof value === 'number') return value;
-  if (typeof value !== 'string' || value.trim() === '') return null;
-  return Number(value);
-};
-
-/**
- * A refinement step that runs a shared schema over a form's converted values, so the form checks
- * exactly what the server will (cross-field rules included), with the same messages and paths.
- */
-export function checkedBy<S extends z.ZodType>(schema: S) {
-  return (value: unknown, ctx: z.RefinementCtx): z.output<S> => {
-    const result = schema.safeParse(value);
-    if (result.success) return result.data;
-    for (const issue of result.error.issues) ctx.addIssue({ code: 'custom', message: issue.message, path: issue.path });
-    return z.NEVER;
-  };
-}
+export { checkedBy, emptyToNull, toNumberOrNull } from '@/lib/form-errors';

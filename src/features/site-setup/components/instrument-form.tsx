@@ -8,7 +8,7 @@ import { Field } from '@/components/field';
 import { useSaveInstrument } from '../data/save-instrument';
 import { emptyToNull, reportFormError, toNumberOrNull } from './form-errors';
 import { INSTRUMENT_KIND_LABELS } from './labels';
-import { SelectField } from './select-field';
+import { SelectField } from '@/components/select-field';
 
 const FIELDS = ['kind', 'model', 'serial', 'probe', 'calibratedOn', 'calibrationDueOn', 'calibrationCertificate', 'relativeUncertainty', 'notes'] as const;
 

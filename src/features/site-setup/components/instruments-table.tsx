@@ -2,7 +2,7 @@ import { createColumnHelper } from '@tanstack/react-table';
 import type { Instrument } from '@shared/schemas/instrument';
 import { Button } from '@/components/button';
 import { CalibrationBadge } from './calibration-badge';
-import { DataTable } from './data-table';
+import { DataTable } from '@/components/data-table';
 import { INSTRUMENT_KIND_LABELS } from './labels';
 
 const column = createColumnHelper<Instrument>();

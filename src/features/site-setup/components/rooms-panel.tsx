@@ -15,13 +15,13 @@ import { useDeleteRoom } from '../data/delete-room';
 import { useRooms } from '../data/list-rooms';
 import { useUpdateRoom } from '../data/update-room';
 import { pixelToLatLng, type PixelPoint } from '../plan-geometry';
-import { ConfirmButton } from './confirm-button';
+import { ConfirmButton } from '@/components/confirm-button';
 import { emptyToNull, reportFormError } from './form-errors';
 import { SENSITIVITY_LABELS } from './labels';
 import { PlanMap } from './plan-map';
 import { QueryState } from './query-state';
 import { RoomDrawTool, RoomEditTool } from './room-draw-tools';
-import { SelectField } from './select-field';
+import { SelectField } from '@/components/select-field';
 
 const SENSITIVITY_COLOURS: Record<Room['sensitivity'], string> = { none: '#4a5451', low: '#1c716b', medium: '#a15726', high: '#a3261b' };
 

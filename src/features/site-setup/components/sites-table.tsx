@@ -1,7 +1,7 @@
 import { createColumnHelper } from '@tanstack/react-table';
 import { Link } from 'react-router-dom';
 import type { SiteSummary } from '@shared/schemas/home';
-import { DataTable } from './data-table';
+import { DataTable } from '@/components/data-table';
 
 const column = createColumnHelper<SiteSummary>();
 const columns = [

@@ -9,7 +9,7 @@ import { Button } from '@/components/button';
 import { Field } from '@/components/field';
 import { useSaveSource } from '../data/save-source';
 import { emptyToNull, reportFormError } from './form-errors';
-import { SelectField } from './select-field';
+import { SelectField } from '@/components/select-field';
 import { SHIELDING_LABELS, SOURCE_KIND_LABELS, SOURCE_STATE_LABELS } from './labels';
 
 /** The shared schema, with the nominal field typed as text with its unit ("3 T", "30 kG"). */

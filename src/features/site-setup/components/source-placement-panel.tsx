@@ -10,7 +10,7 @@ import { useSaveSource } from '../data/save-source';
 import { pixelToLatLng, type PixelPoint } from '../plan-geometry';
 import { SETUP_NEEDS_NETWORK } from './form-errors';
 import { PlanMap } from './plan-map';
-import { SelectField } from './select-field';
+import { SelectField } from '@/components/select-field';
 
 /** Put a site's magnets on this level's plan: choose one, click its centre. */
 export function SourcePlacementPanel({ organisationId, siteId, levelId, plan, imageUrl, canEdit }: {

@@ -6,7 +6,7 @@ import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { useDeleteSource } from '../data/delete-source';
 import { useSources } from '../data/list-sources';
-import { ConfirmButton } from './confirm-button';
+import { ConfirmButton } from '@/components/confirm-button';
 import { QueryState } from './query-state';
 import { SourceForm } from './source-form';
 import { SHIELDING_LABELS, SOURCE_KIND_LABELS, SOURCE_STATE_LABELS } from './labels';

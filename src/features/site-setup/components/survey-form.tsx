@@ -13,7 +13,7 @@ import { useSaveSurvey } from '../data/save-survey';
 import { checkedBy, emptyToNull, reportFormError } from './form-errors';
 import { QueryState } from './query-state';
 import { SPECIES_LABELS } from './labels';
-import { SelectField } from './select-field';
+import { SelectField } from '@/components/select-field';
 
 /**
  * The form's text boxes (the repeat radius typed with its unit, "30 cm"; the harmonic as text) turned
