@@ -49,6 +49,9 @@ import roomsRouter from './features/rooms/rooms.router';
 import { createRoomsRepository } from './features/rooms/rooms.repository';
 import { createRoomsService } from './features/rooms/rooms.service';
 import sourcesRouter from './features/sources/sources.router';
+import emcRouter from './features/emc/emc.router';
+import { createEmcRepository } from './features/emc/emc.repository';
+import { createEmcService } from './features/emc/emc.service';
 import watchBandsRouter from './features/watch-bands/watch-bands.router';
 import { createWatchBandsRepository } from './features/watch-bands/watch-bands.repository';
 import { createWatchBandsService } from './features/watch-bands/watch-bands.service';
@@ -157,6 +160,8 @@ export function createApp(deps: AppDeps): FringewalkApp {
   api.use(emittersRouter({ emitters: createEmittersService(createEmittersRepository(deps.db)), guards }));
   // EMC (issue 8): watch bands.
   api.use(watchBandsRouter({ watchBands: createWatchBandsService(createWatchBandsRepository(deps.db)), guards }));
+  // EMC (issue 8): predicted lines per room and their flags (computed by the flag job, emc-flag-job.ts).
+  api.use(emcRouter({ emc: createEmcService({ repo: createEmcRepository(deps.db), mailer: deps.mailer, publicUrl: deps.publicUrl, logger: deps.logger }), guards }));
   api.use(
     instrumentsRouter({
       instruments: createInstrumentsService({ repo: createInstrumentsRepository(deps.db), storage, mailer: deps.mailer, publicUrl: deps.publicUrl, logger: deps.logger }),

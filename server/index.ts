@@ -13,6 +13,7 @@ import { startLocalPostgres } from './db/local-postgres';
 import { runMigrations } from './db/migrate';
 import { seedDemo } from './db/seed/demo';
 import { seedDemoFiles } from './db/seed/demo-files';
+import { startEmcFlagJob } from './features/emc/emc-flag-job';
 import { startCalibrationReminders } from './features/instruments/calibration-reminders';
 import { buildClient, createViteDevMiddleware } from './lib/client-build';
 import { ConfigError, LOCAL_DATABASE_NAME, loadConfig, resolveSessionSecret, type Config } from './lib/config';
@@ -196,6 +197,8 @@ export async function runServer(mode: RunMode): Promise<void> {
     stack.push({ name: 'the app', stop: close });
     const reminders = startCalibrationReminders({ db, storage, mailer, publicUrl: config.publicUrl, logger });
     stack.push({ name: 'the calibration reminders', stop: () => reminders.stop() });
+    const emcFlags = startEmcFlagJob({ db, mailer, publicUrl: config.publicUrl, logger });
+    stack.push({ name: 'the EMC flag job', stop: () => emcFlags.stop() });
     server.on('request', app);
 
     await new Promise<void>((resolve, reject) => {

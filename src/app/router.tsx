@@ -43,6 +43,8 @@ export const router = createBrowserRouter([
           { path: '/survey-setup/:surveyId', element: <SurveySetupRoute />, errorElement },
           { path: '/instruments', element: <InstrumentsRoute />, errorElement },
           { path: '/watch-bands', lazy: async () => ({ Component: (await import('./routes/watch-bands')).default }), errorElement },
+          { path: '/surveys/:surveyId/emc', lazy: async () => ({ Component: (await import('./routes/survey-emc')).default }), errorElement },
+          { path: '/surveys/:surveyId/emc/rooms/:roomId', lazy: async () => ({ Component: (await import('./routes/survey-emc-room')).default }), errorElement },
           { path: '/surveys/:surveyId', element: <SurveyRoute />, errorElement },
           // Capture carries Leaflet and the forms: loaded when opened (the service worker precaches the chunk).
           { path: '/surveys/:surveyId/capture', lazy: async () => ({ Component: (await import('./routes/capture')).default }), errorElement },

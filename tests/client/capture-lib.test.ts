@@ -9,7 +9,7 @@ import { computeFieldFeedback } from '@/features/capture/lib/feedback';
 import { nearestWithin } from '@/features/capture/lib/hit-test';
 import { planImageBoundsM } from '@/features/capture/lib/plan-frame';
 import { emptyReadingForm, liveFieldTesla, parseReadingForm } from '@/features/capture/lib/reading-form';
-import { rulerDomainFor, rulerSpan, rulerTicks, rulerX } from '@/features/capture/lib/ruler-geometry';
+import { rulerDomainFor, rulerSpan, rulerTicks, rulerX } from '@/lib/ruler-geometry';
 import { checkTraceCsv, emptySweepForm, parseSweepForm } from '@/features/capture/lib/sweep-form';
 
 const ORG = '00000000-0000-7000-8000-000000000001';

@@ -52,6 +52,7 @@ const WRITERS: Role[] = ['admin', 'reviewer'];
 const writer = (who: Who) => who === 'admin' || who === 'reviewer';
 const BAND_KEEPERS: Role[] = ['emc', 'admin'];
 let mriScanners = 0;
+const MATRIX_FLAG_ID = '00000000-0000-7000-8000-00000000f1a9';
 const matrixBand = (name: string) => ({ name, lowerHz: 700e6, upperHz: 701e6, reason: 'Matrix', source: 'Invented test data', severity: 'low' });
 const ANTENNA_CSV = Buffer.from('frequency_mhz,antenna_factor_db_per_m\n30,18.2\n300,14.1\n');
 
@@ -211,6 +212,12 @@ const MATRIX: Row[] = [
     // A fresh scanner of a field of its own each time: a receive band (same edges) can be added once.
     prepare: async (ctx) => ({ params: { sourceId: await ctx.setup.create(`/sites/${ctx.siteId}/sources`, { name: ctx.unique(), kind: 'mri', nominalFieldT: 1 + (mriScanners += 1) / 10 }) } }),
   },
+  // EMC (issue 8 §2–§3): predictions and flags read by every member; flags worked by EMC engineers and admins
+  // (a made-up flag: the guards pass, then 404 — the life of a real flag: emc-flags.test.ts).
+  { method: 'GET', path: '/api/orgs/:orgId/surveys/:surveyId/emc/rooms', expect: members(200) },
+  { method: 'GET', path: '/api/orgs/:orgId/surveys/:surveyId/emc/flags', expect: members(200) },
+  { method: 'POST', path: '/api/orgs/:orgId/flags/:flagId/acknowledge', expect: only(BAND_KEEPERS, 404), prepare: () => ({ params: { flagId: MATRIX_FLAG_ID }, body: { note: 'Matrix.' } }) },
+  { method: 'POST', path: '/api/orgs/:orgId/flags/:flagId/resolve', expect: only(BAND_KEEPERS, 404), prepare: () => ({ params: { flagId: MATRIX_FLAG_ID }, body: { resolution: 'Matrix.' } }) },
   { method: 'GET', path: '/api/orgs/:orgId/sites/:siteId/sources', expect: members(200) },
   { method: 'POST', path: '/api/orgs/:orgId/sites/:siteId/sources', expect: only(WRITERS, 201), prepare: (ctx) => ({ body: { name: ctx.unique(), kind: 'other', nominalFieldT: 0.5 } }) },
   { method: 'PATCH', path: '/api/orgs/:orgId/sources/:sourceId', expect: only(WRITERS), prepare: (ctx) => ({ params: { sourceId: ctx.setup.sourceId }, body: { notes: 'Matrix.' } }) },

@@ -7,6 +7,7 @@
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { createApp, type AppDeps } from '../../server/app';
+import { startEmcFlagJob } from '../../server/features/emc/emc-flag-job';
 import { createDb } from '../../server/db/client';
 import { createMailer } from '../../server/lib/mail';
 import { startMailCapture, type CapturedMail } from '../../server/lib/mail-capture';
@@ -98,6 +99,9 @@ export async function startTestApp(options: StartTestAppOptions = {}): Promise<T
       ...(options.clientDir ? { client: { dir: options.clientDir } } : {}),
     });
     cleanups.push(close);
+    // As in npm start: the EMC flag job keeps the demo survey's line-in-band flags current.
+    const emcJob = startEmcFlagJob({ db, mailer, publicUrl: baseUrl, logger: testLogger(), intervalMs: 1_000 });
+    cleanups.push(() => emcJob.stop());
     server.on('request', app);
 
     return {

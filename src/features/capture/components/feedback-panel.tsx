@@ -2,7 +2,7 @@ import { formatFluxDensity, formatFrequency } from '@shared/units';
 import type { OfflineWatchBand } from '@shared/schemas/offline';
 import { harmonicLabel, type FieldFeedback } from '../lib/feedback';
 import type { FieldUnit } from '../lib/reading-form';
-import { FrequencyRuler } from './frequency-ruler';
+import { FrequencyRuler } from '@/components/frequency-ruler';
 
 export interface FeedbackPanelProps {
   feedback: FieldFeedback | null;

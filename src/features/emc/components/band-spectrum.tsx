@@ -1,7 +1,7 @@
 import type { WatchBand } from '@shared/schemas/watch-band';
 import { SEVERITIES } from '@shared/schemas/vocabulary';
 import { formatFrequency } from '@shared/units';
-import { rulerDomainFor, rulerSpan, rulerTicks, rulerX } from '@/features/capture/lib/ruler-geometry';
+import { rulerDomainFor, rulerSpan, rulerTicks, rulerX } from '@/lib/ruler-geometry';
 import { SEVERITY_LABELS } from './labels';
 
 const WIDTH = 720;

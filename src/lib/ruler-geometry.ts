@@ -1,7 +1,7 @@
 /**
- * Geometry of the feedback panel's frequency ruler: a log-frequency axis (cyclotron lines are
- * proportional to |B|, and |B| spans decades across a site), decade ticks, and the placement of line
- * ticks and watch-band spans in SVG user units.
+ * Geometry of the frequency ruler (capture's feedback panel, a room's EMC page): a log-frequency axis
+ * (cyclotron lines are proportional to |B|, and |B| spans decades across a site), decade ticks, and the
+ * placement of line ticks and watch-band spans in SVG user units.
  */
 
 export interface RulerDomain {

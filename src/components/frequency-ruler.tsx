@@ -1,15 +1,33 @@
 import { formatFrequency } from '@shared/units';
-import type { OfflineWatchBand } from '@shared/schemas/offline';
-import type { FeedbackLine } from '../lib/feedback';
-import { rulerDomainFor, rulerSpan, rulerTicks, rulerX } from '../lib/ruler-geometry';
+import { rulerDomainFor, rulerSpan, rulerTicks, rulerX } from '@/lib/ruler-geometry';
 
 const WIDTH = 360;
 const AXIS_Y = 46;
 const PAD_X = 10;
 
+/** A predicted line band: the capture form's feedback lines and a room's lines both fit. */
+export interface RulerLine {
+  speciesId: string;
+  speciesName: string;
+  harmonic: number;
+  lowHz: number;
+  highHz: number;
+  /** Where the tick is drawn, Hz. */
+  centreHz: number;
+  /** The watch bands the line touches. */
+  hits: readonly { watchBandId: string }[];
+}
+
+export interface RulerWatchBand {
+  id: string;
+  name: string;
+  lowerHz: number;
+  upperHz: number;
+}
+
 export interface FrequencyRulerProps {
-  lines: readonly FeedbackLine[];
-  watchBands: readonly OfflineWatchBand[];
+  lines: readonly RulerLine[];
+  watchBands: readonly RulerWatchBand[];
 }
 
 /**
