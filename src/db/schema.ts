@@ -61,7 +61,17 @@ export const SCHEMA_V3 = {
   remoteFiles: '[recordId+kind], surveyId',
 } as const;
 
-export const CURRENT_SCHEMA_VERSION = 3;
+/**
+ * Version 4: readings by station, oldest to newest ([stationId+measuredAt]), so a save finds the
+ * station's newest live reading (the colour on the plan) by reading one or two rows from the top of the
+ * station's range instead of every reading ever taken there. An index only: nothing to reshape.
+ */
+export const SCHEMA_V4 = {
+  ...SCHEMA_V3,
+  fieldReadings: 'id, surveyId, stationId, walkId, [walkId+measuredAt], [stationId+measuredAt]',
+} as const;
+
+export const CURRENT_SCHEMA_VERSION = 4;
 
 export function declareVersions(db: Dexie): void {
   db.version(1).stores(SCHEMA_V1);
@@ -94,4 +104,6 @@ export function declareVersions(db: Dexie): void {
     });
   // New tables only: nothing to reshape.
   db.version(3).stores(SCHEMA_V3);
+  // A new index only: IndexedDB builds it from the rows already stored.
+  db.version(4).stores(SCHEMA_V4);
 }

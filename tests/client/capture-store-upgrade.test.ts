@@ -1,12 +1,13 @@
 /**
  * Schema upgrade without data loss: a database written by the previous version's schema (version 1,
  * built here with raw Dexie from SCHEMA_V1, the layout kept verbatim in src/db/schema.ts) is opened by
- * the current FringewalkDb class, and every row is still there, reshaped.
+ * the current FringewalkDb class, and every row is still there, reshaped. Likewise from version 3, the
+ * layout before the [stationId+measuredAt] index of version 4.
  */
 import Dexie from 'dexie';
 import { v7 as uuidv7 } from 'uuid';
 import { afterEach, describe, expect, it } from 'vitest';
-import { CURRENT_SCHEMA_VERSION, FringewalkDb, SCHEMA_V1 } from '@/db';
+import { CURRENT_SCHEMA_VERSION, FringewalkDb, SCHEMA_V1, SCHEMA_V3 } from '@/db';
 
 const NAME = 'fringewalk-upgrade-test';
 
@@ -71,4 +72,42 @@ describe('upgrading the device store', () => {
     }
   });
 
+  it('a version-3 database opens with the current class: rows intact, and readings answer by station, newest first', async () => {
+    const orgId = uuidv7();
+    const surveyId = uuidv7();
+    const stationId = uuidv7();
+    const userId = uuidv7();
+    const old = new Dexie(NAME);
+    old.version(3).stores(SCHEMA_V3);
+    await old.open();
+    const station = { id: stationId, organisationId: orgId, revision: 1, deleted: false, surveyId, levelId: uuidv7(), walkId: null, roomId: null, label: 'S1', xM: 1, yM: 2, heightM: 1, createdByUserId: userId, notes: null, latestFieldT: 3e-3 };
+    const reading = (measuredAt: string, fieldT: number) => ({
+      id: uuidv7(), organisationId: orgId, revision: 1, deleted: false, surveyId, stationId, walkId: null, instrumentId: null, surveyorUserId: userId,
+      magnitudeT: fieldT, bxT: null, byT: null, bzT: null, unit: 'mT', probeOrientation: 'three_axis', heightM: 1, backgroundT: null,
+      zeroed: true, measuredAt, notes: null, photoObjectKey: null, photoSha256: null, fieldT,
+    });
+    const rows = [reading('2026-11-17T09:00:00.000Z', 1e-3), reading('2026-11-17T11:00:00.000Z', 3e-3), reading('2026-11-17T10:00:00.000Z', 2e-3)];
+    await old.table('stations').put(station);
+    await old.table('fieldReadings').bulkPut(rows);
+    await old.table('outbox').add({ mutationId: uuidv7(), entity: 'stations', recordId: stationId, surveyId, baseRevision: 0, payload: station, queuedAt: '2026-11-17T09:00:01.000Z', status: 'pending', error: null });
+    await old.table('syncConflicts').put({ entity: 'stations', recordId: stationId, surveyId, origin: 'pull', conflictId: null, serverRevision: 2, serverVersion: null, localVersion: null, message: 'kept', markedAt: '2026-11-17T12:00:00.000Z' });
+    old.close();
+
+    const current = new FringewalkDb(NAME);
+    await current.open();
+    try {
+      expect(current.verno).toBe(CURRENT_SCHEMA_VERSION);
+      expect(CURRENT_SCHEMA_VERSION).toBe(4);
+      expect(await current.fieldReadings.toArray()).toEqual(expect.arrayContaining(rows));
+      expect(await current.fieldReadings.count()).toBe(3);
+      expect(await current.stations.get(stationId)).toEqual(station);
+      expect(await current.outbox.count()).toBe(1);
+      expect(await current.syncConflicts.count()).toBe(1);
+      // The new index holds the rows written before it existed, in measuredAt order.
+      const byStation = await current.fieldReadings.where('[stationId+measuredAt]').between([stationId, ''], [stationId, '\uffff']).toArray();
+      expect(byStation.map((r) => r.measuredAt)).toEqual(['2026-11-17T09:00:00.000Z', '2026-11-17T10:00:00.000Z', '2026-11-17T11:00:00.000Z']);
+    } finally {
+      current.close();
+    }
+  });
 });

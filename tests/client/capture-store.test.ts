@@ -250,10 +250,11 @@ describe('pending counts', () => {
 
   it('usePendingCounts follows writes live', async () => {
     const station = await saveStation(stationInput(c));
-    const { result } = renderHook(() => usePendingCounts(c.surveyId));
+    const { result, unmount } = renderHook(() => usePendingCounts(c.surveyId));
     await waitFor(() => expect(result.current?.stations).toBe(1));
     await saveFieldReading(readingInput(c, station.id));
     await waitFor(() => expect(result.current?.readings).toBe(1));
+    unmount();
   });
 });
 
@@ -282,10 +283,11 @@ describe('surviving a reload', () => {
   });
 
   it('the last unit defaults to mT and then remembers the choice', async () => {
-    const { result } = renderHook(() => useLastFieldUnit());
+    const { result, unmount } = renderHook(() => useLastFieldUnit());
     await waitFor(() => expect(result.current).toBe('mT'));
     await setLastFieldUnit('µT');
     await waitFor(() => expect(result.current).toBe('µT'));
+    unmount();
   });
 });
 

@@ -3,11 +3,13 @@
  * side on wide screens). Everything it reads and writes is on the device (Dexie live queries from
  * ../data), so it works the same with the network off.
  */
-import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import { memo, useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { useLiveQuery } from 'dexie-react-hooks';
+import { v7 as uuidv7 } from 'uuid';
 import { roomForPoint } from '@shared/plans/polygon';
-import type { FieldReading, Sweep } from '@shared/schemas/capture';
+import { readingFieldTesla, type FieldReading, type Sweep } from '@shared/schemas/capture';
 import { Alert } from '@/components/alert';
+import type { DecisionRow } from '@/db';
 import { showToast } from '@/lib/toast';
 import {
   deleteFieldReading,
@@ -15,22 +17,24 @@ import {
   getDeviceId,
   isCaptureError,
   resizePhoto,
-  saveFieldReading,
-  saveStation,
-  saveSweep,
+  saveFieldReadingWith,
+  saveSweepWith,
   setLastFieldUnit,
   startWalk,
   findOpenWalk,
-  useDraftEntry,
+  getDraft,
   useLastFieldUnit,
   usePendingCounts,
   usePlanImageUrl,
   useRemeasureRequests,
   useStations,
   useWalkEntries,
+  newestFirst,
+  walkEntryId,
   pendingSummary,
   CaptureValidationError,
   type OfflineSurvey,
+  type StationInput,
   type WalkEntry,
 } from '../data';
 import { isCalibrationOverdue, localDate } from '../lib/calibration';
@@ -48,6 +52,43 @@ import { SweepForm } from './sweep-form';
 import { useDebouncedDraft } from './use-debounced-draft';
 import { useStableCallback } from './use-stable-callback';
 import { WalkList } from './walk-list';
+
+interface PickerStation {
+  id: string;
+  label: string | null;
+  roomId: string | null;
+}
+
+const samePickerStations = (a: readonly PickerStation[], b: readonly PickerStation[]) =>
+  a === b || (a.length === b.length && a.every((s, i) => s.id === b[i]?.id && s.label === b[i]?.label && s.roomId === b[i]?.roomId));
+
+/** The station list under the plan; re-rendered when its stations' names change, not when a save re-colours one. */
+const StationPicker = memo(
+  function StationPicker(props: {
+    stations: readonly PickerStation[];
+    wholeLevel: boolean;
+    selectedId: string;
+    remeasureIds: ReadonlySet<string>;
+    roomName: (id: string | null) => string | null;
+    onChoose: (id: string) => void;
+  }) {
+    const { stations, wholeLevel, selectedId, remeasureIds, roomName, onChoose } = props;
+    return (
+      <SelectField label={wholeLevel ? 'Or choose a station on this level' : 'Or choose a station of this walk or a re-measure request'} value={selectedId} onChange={(e) => onChoose(e.target.value)}>
+        <option value="">—</option>
+        {stations.map((s) => (
+          <option key={s.id} value={s.id}>
+            {s.label ?? 'Station'}
+            {s.roomId ? ` · ${roomName(s.roomId)}` : ''}
+            {remeasureIds.has(s.id) ? ' · re-measure requested' : ''}
+          </option>
+        ))}
+      </SelectField>
+    );
+  },
+  (a, b) =>
+    a.wholeLevel === b.wholeLevel && a.selectedId === b.selectedId && a.remeasureIds === b.remeasureIds && a.roomName === b.roomName && a.onChoose === b.onChoose && samePickerStations(a.stations, b.stations),
+);
 
 type Tab = 'reading' | 'sweep' | 'walk';
 type Target = { kind: 'existing'; stationId: string } | { kind: 'new'; levelId: string; xM: number; yM: number } | null;
@@ -68,6 +109,8 @@ export interface CaptureScreenProps {
   userId: string;
 }
 
+const NO_DECISIONS: readonly DecisionRow[] = [];
+
 /** Entries the walk list shows before 'Show the whole walk'. */
 export const WALK_LIST_LIMIT = 100;
 /** Stations listed in the picker before it narrows to this walk's and the re-measure requests. */
@@ -84,7 +127,20 @@ function toFormError(error: unknown): FormSubmitError {
 }
 
 export function CaptureScreen({ offline, userId }: CaptureScreenProps) {
-  const draftEntry = useDraftEntry<CaptureDraft>(draftKey(offline.survey.id));
+  // The draft is read once, when the screen opens: it seeds the forms, and the screen itself writes every
+  // later version. (A live query here would re-render the whole workspace after every draft write.)
+  const [draftEntry, setDraftEntry] = useState<{ value: CaptureDraft } | null | undefined>(undefined);
+  const surveyDraftKey = draftKey(offline.survey.id);
+  useEffect(() => {
+    let live = true;
+    getDraft<CaptureDraft>(surveyDraftKey).then(
+      (value) => live && setDraftEntry(value === undefined ? null : { value }),
+      () => live && setDraftEntry(null),
+    );
+    return () => {
+      live = false;
+    };
+  }, [surveyDraftKey]);
   const lastUnit = useLastFieldUnit();
   // The device id is made on first use with a write; do that here, outside the live queries that read it
   // (Dexie refuses a read-write transaction inside a live query).
@@ -131,14 +187,25 @@ function CaptureWorkspace({ offline, userId, deviceId, draft, lastUnit }: Captur
 
   const plan = offline.plans.find((p) => p.levelId === levelId);
   const imageUrl = usePlanImageUrl(plan?.id);
-  const stations = useStations(surveyId, levelId);
   // Not useCurrentWalk: it asks for the device id inside its live query, and getDeviceId opens a read-write
   // transaction, which Dexie refuses there. The id is known here, so the open walk is a plain read.
   const walk = useLiveQuery(() => findOpenWalk(surveyId, deviceId), [surveyId, deviceId]);
   // The walk list shows the newest WALK_LIST_LIMIT entries until asked for all: a long day stays quick
   // to update after every save on a phone.
   const [showAllEntries, setShowAllEntries] = useState(false);
-  const entries = useWalkEntries(walk?.id, showAllEntries ? {} : { limit: WALK_LIST_LIMIT + 1 });
+  const stations = useStations(surveyId, levelId);
+  const viewEntries = useWalkEntries(walk?.id, showAllEntries ? {} : { limit: WALK_LIST_LIMIT + 1 });
+  // What this screen saved since the store's last answer: committed records, shown at once instead of
+  // after the live query's next read. Any answer that arrives after a commit includes that commit (a
+  // read overlapping a write is read again), so the first new answer replaces these.
+  const [committed, setCommitted] = useState<{ base: readonly WalkEntry[] | undefined; entries: WalkEntry[] } | null>(null);
+  const entries = useMemo(() => {
+    if (!committed || committed.base !== viewEntries) return viewEntries;
+    const ids = new Set(committed.entries.map(walkEntryId));
+    return [...committed.entries, ...(viewEntries ?? []).filter((e) => !ids.has(walkEntryId(e)))].sort(newestFirst);
+  }, [committed, viewEntries]);
+  const showCommitted = (entry: WalkEntry) =>
+    setCommitted((c) => ({ base: viewEntries, entries: [...(c && c.base === viewEntries ? c.entries.filter((e) => walkEntryId(e) !== walkEntryId(entry)) : []), entry] }));
   const entriesLimited = !showAllEntries && (entries?.length ?? 0) > WALK_LIST_LIMIT;
   const shownEntries = useMemo(() => (entriesLimited ? entries?.slice(0, WALK_LIST_LIMIT) : entries), [entries, entriesLimited]);
   const remeasure = useRemeasureRequests(surveyId);
@@ -172,14 +239,15 @@ function CaptureWorkspace({ offline, userId, deviceId, draft, lastUnit }: Captur
   };
 
   const stationById = useMemo(() => new Map((stations ?? []).map((s) => [s.id, s])), [stations]);
-  const roomName = (id: string | null) => offline.rooms.find((r) => r.id === id)?.name ?? null;
-  const stationTarget: StationTarget | null = (() => {
+  const roomName = useCallback((id: string | null) => offline.rooms.find((r) => r.id === id)?.name ?? null, [offline.rooms]);
+  const chosen = target?.kind === 'existing' ? stationById.get(target.stationId) : undefined;
+  const stationTarget: StationTarget | null = useMemo(() => {
     if (!target) return null;
     if (target.kind === 'new') return { kind: 'new', xM: target.xM, yM: target.yM, roomName: roomForPoint(levelRooms, target.xM, target.yM)?.name ?? null };
-    const s = stationById.get(target.stationId);
-    if (!s) return null;
-    return { kind: 'existing', stationId: s.id, label: s.label ?? 'Station', roomName: roomName(s.roomId), latestFieldT: s.latestFieldT };
-  })();
+    if (!chosen) return null;
+    return { kind: 'existing', stationId: chosen.id, label: chosen.label ?? 'Station', roomName: roomName(chosen.roomId), latestFieldT: chosen.latestFieldT };
+  }, [target, chosen?.id, chosen?.label, chosen?.roomId, chosen?.latestFieldT, levelRooms, roomName]); // eslint-disable-line react-hooks/exhaustive-deps -- the fields shown, not the row object
+  const stationRemeasure = useMemo(() => (target?.kind === 'existing' ? (remeasure?.get(target.stationId) ?? NO_DECISIONS) : NO_DECISIONS), [target, remeasure]);
   // A picked station on another level is not on screen: treat it as not chosen until its level is shown.
   const stationReady = stationTarget !== null;
 
@@ -198,11 +266,16 @@ function CaptureWorkspace({ offline, userId, deviceId, draft, lastUnit }: Captur
 
   const ensureWalk = async () => walk ?? (await startWalk({ surveyId, orgId, userId }));
 
-  const ensureStation = async (walkId: string, heightM: number): Promise<string> => {
+  /**
+   * The station a save goes to: the one picked, or a new one to create with the record (in its
+   * transaction, so a refused save leaves no station behind).
+   */
+  const stationFor = (walkId: string, heightM: number): { stationId: string; newStation?: StationInput } => {
     if (!target) throw new FormSubmitError('Choose a station first.');
-    if (target.kind === 'existing') return target.stationId;
+    if (target.kind === 'existing') return { stationId: target.stationId };
     const room = roomForPoint(levelRooms, target.xM, target.yM);
-    const station = await saveStation({
+    const newStation: StationInput = {
+      id: uuidv7(),
       organisationId: orgId,
       surveyId,
       levelId: target.levelId,
@@ -214,9 +287,11 @@ function CaptureWorkspace({ offline, userId, deviceId, draft, lastUnit }: Captur
       heightM,
       createdByUserId: userId,
       notes: null,
-    });
-    chooseTarget({ kind: 'existing', stationId: station.id });
-    return station.id;
+    };
+    return { stationId: newStation.id as string, newStation };
+  };
+  const placed = (station: { id: string } | null) => {
+    if (station) chooseTarget({ kind: 'existing', stationId: station.id });
   };
 
   const saveReading = useStableCallback(async (parsed: ParsedReading, photo: File | null) => {
@@ -225,14 +300,14 @@ function CaptureWorkspace({ offline, userId, deviceId, draft, lastUnit }: Captur
     try {
       const w = await ensureWalk();
       const photoBlob = photo ? await resizePhoto(photo) : undefined;
-      const stationId = await ensureStation(w.id, parsed.heightM);
       const original = editing?.kind === 'reading' ? editing.reading : null;
-      await saveFieldReading(
+      const { stationId, newStation } = original ? { stationId: original.stationId, newStation: undefined } : stationFor(w.id, parsed.heightM);
+      const saved = await saveFieldReadingWith(
         {
           ...(original ? { id: original.id } : {}),
           organisationId: orgId,
           surveyId,
-          stationId: original?.stationId ?? stationId,
+          stationId,
           walkId: original?.walkId ?? w.id,
           instrumentId: parsed.instrumentId,
           surveyorUserId: original?.surveyorUserId ?? userId,
@@ -250,8 +325,10 @@ function CaptureWorkspace({ offline, userId, deviceId, draft, lastUnit }: Captur
           photoObjectKey: photoBlob ? null : (original?.photoObjectKey ?? null),
           photoSha256: photoBlob ? null : (original?.photoSha256 ?? null),
         },
-        photoBlob,
+        { ...(photoBlob ? { photo: photoBlob } : {}), ...(newStation ? { newStation } : {}) },
       );
+      placed(saved.station);
+      showCommitted({ kind: 'reading', reading: { ...saved.reading, fieldT: readingFieldTesla(saved.reading) } });
     } catch (error) {
       throw toFormError(error);
     }
@@ -269,14 +346,14 @@ function CaptureWorkspace({ offline, userId, deviceId, draft, lastUnit }: Captur
   const saveSweepRecord = useStableCallback(async (parsed: ParsedSweep, trace: File | null) => {
     try {
       const w = await ensureWalk();
-      const stationId = await ensureStation(w.id, 1);
       const original = editing?.kind === 'sweep' ? editing.sweep : null;
-      await saveSweep(
+      const { stationId, newStation } = original ? { stationId: original.stationId, newStation: undefined } : stationFor(w.id, 1);
+      const saved = await saveSweepWith(
         {
           ...(original ? { id: original.id } : {}),
           organisationId: orgId,
           surveyId,
-          stationId: original?.stationId ?? stationId,
+          stationId,
           walkId: original?.walkId ?? w.id,
           analyserId: parsed.analyserId,
           antennaId: parsed.antennaId,
@@ -295,8 +372,10 @@ function CaptureWorkspace({ offline, userId, deviceId, draft, lastUnit }: Captur
           heightM: original?.heightM ?? null,
           notes: parsed.notes,
         },
-        trace ?? undefined,
+        { ...(trace ? { trace } : {}), ...(newStation ? { newStation } : {}) },
       );
+      placed(saved.station);
+      showCommitted({ kind: 'sweep', sweep: saved.sweep });
     } catch (error) {
       throw toFormError(error);
     }
@@ -349,6 +428,9 @@ function CaptureWorkspace({ offline, userId, deviceId, draft, lastUnit }: Captur
     }
   });
   const onShowAll = useStableCallback(() => setShowAllEntries(true));
+  const onClearTarget = useStableCallback(() => chooseTarget(null));
+  const onChooseLevel = useStableCallback((id: string) => chooseLevel(id));
+  const onChooseStation = useStableCallback((id: string) => chooseTarget(id ? { kind: 'existing', stationId: id } : null));
   const onPick = useStableCallback((id: string) => chooseTarget({ kind: 'existing', stationId: id }));
   const onPlace = useStableCallback((p: { xM: number; yM: number }) => {
     if (levelId) chooseTarget({ kind: 'new', levelId, xM: p.xM, yM: p.yM });
@@ -383,14 +465,14 @@ function CaptureWorkspace({ offline, userId, deviceId, draft, lastUnit }: Captur
             {summary ?? 'Everything here is synced'}
           </p>
         </div>
-        <LevelSwitcher levels={offline.levels} activeId={levelId} onChoose={chooseLevel} />
+        <LevelSwitcher levels={offline.levels} activeId={levelId} onChoose={onChooseLevel} />
         {plan ? (
           <PlanView
             key={plan.id}
             className="h-[44dvh] min-h-64 lg:h-[62dvh]"
             plan={plan}
             imageUrl={imageUrl}
-            stations={planStations}
+            stations={stations}
             rooms={levelRooms}
             domain={domain}
             selectedStationId={target?.kind === 'existing' ? target.stationId : null}
@@ -409,22 +491,16 @@ function CaptureWorkspace({ offline, userId, deviceId, draft, lastUnit }: Captur
       </div>
 
       <div className="flex flex-col gap-3">
-        <StationPanel target={stationTarget} unit={readingInitial.unit} remeasure={target?.kind === 'existing' ? (remeasure?.get(target.stationId) ?? []) : []} onClear={() => chooseTarget(null)} />
+        <StationPanel target={stationTarget} unit={readingInitial.unit} remeasure={stationRemeasure} onClear={onClearTarget} />
         {pickerStations.length > 0 && (
-          <SelectField
-            label={pickerStations.length === planStations.length ? 'Or choose a station on this level' : 'Or choose a station of this walk or a re-measure request'}
-            value={target?.kind === 'existing' ? target.stationId : ''}
-            onChange={(e) => (e.target.value ? chooseTarget({ kind: 'existing', stationId: e.target.value }) : chooseTarget(null))}
-          >
-            <option value="">—</option>
-            {pickerStations.map((s) => (
-              <option key={s.id} value={s.id}>
-                {s.label ?? 'Station'}
-                {s.roomId ? ` · ${roomName(s.roomId)}` : ''}
-                {remeasureIds.has(s.id) ? ' · re-measure requested' : ''}
-              </option>
-            ))}
-          </SelectField>
+          <StationPicker
+            stations={pickerStations}
+            wholeLevel={pickerStations.length === planStations.length}
+            selectedId={target?.kind === 'existing' ? target.stationId : ''}
+            remeasureIds={remeasureIds}
+            roomName={roomName}
+            onChoose={onChooseStation}
+          />
         )}
         <div role="tablist" aria-label="Capture" className="grid grid-cols-3 gap-2">
           {(

@@ -1,3 +1,4 @@
+import { memo } from 'react';
 import { fromSi } from '@shared/units';
 import { decadeTicks, fieldPosition, NO_READING_COLOUR, rampGradientCss, type FieldDomain } from '../lib/colour-scale';
 import type { FieldUnit } from '../lib/reading-form';
@@ -8,7 +9,7 @@ export function legendLabel(fieldT: number, unit: FieldUnit): string {
 }
 
 /** The plan's colour key: the log-|B| ramp with decade ticks in the surveyor's unit. */
-export function FieldLegend({ domain, unit }: { domain: FieldDomain; unit: FieldUnit }) {
+export const FieldLegend = memo(function FieldLegend({ domain, unit }: { domain: FieldDomain; unit: FieldUnit }) {
   const ticks = decadeTicks(domain);
   return (
     <figure className="rounded-lg border border-border bg-surface px-3 py-2 text-xs text-fg" aria-label="Colour key: latest |B| on a log scale" data-testid="field-legend">
@@ -33,4 +34,4 @@ export function FieldLegend({ domain, unit }: { domain: FieldDomain; unit: Field
       </div>
     </figure>
   );
-}
+});

@@ -1,3 +1,4 @@
+import { memo } from 'react';
 export interface LevelSwitcherProps {
   levels: ReadonlyArray<{ id: string; name: string }>;
   activeId: string | null;
@@ -5,7 +6,7 @@ export interface LevelSwitcherProps {
 }
 
 /** One 48 px button per level, bottom floor first. */
-export function LevelSwitcher({ levels, activeId, onChoose }: LevelSwitcherProps) {
+export const LevelSwitcher = memo(function LevelSwitcher({ levels, activeId, onChoose }: LevelSwitcherProps) {
   return (
     <div role="group" aria-label="Level" className="flex gap-2 overflow-x-auto pb-1">
       {levels.map((l) => (
@@ -21,4 +22,4 @@ export function LevelSwitcher({ levels, activeId, onChoose }: LevelSwitcherProps
       ))}
     </div>
   );
-}
+});

@@ -1,10 +1,10 @@
 /**
  * The plan view: the level's plan image in Leaflet's CRS.Simple with one map unit = one plan metre,
- * stations as canvas circle markers coloured by their latest |B| (log scale), the rooms' outlines, the
- * current walk's path, re-measure badges, and tap-to-pick-or-place.
+ * stations as canvas dots coloured by their latest |B| (log scale), the rooms' outlines, the current
+ * walk's path, re-measure badges, and tap-to-pick-or-place.
  *
- * Stations are drawn imperatively on one shared canvas renderer rather than as thousands of React
- * children: 5,000 markers stay one <canvas> and one pass, and a tap is hit-tested in metres
+ * Stations are drawn imperatively on one canvas rather than as thousands of React children or Leaflet
+ * layers: 5,000 stations stay one <canvas> and one pass, and a tap is hit-tested in metres
  * (lib/hit-test) instead of by Leaflet's per-layer event handling.
  */
 import 'leaflet/dist/leaflet.css';
@@ -12,7 +12,7 @@ import L from 'leaflet';
 import { memo, useEffect, useMemo, useRef } from 'react';
 import { ImageOverlay, MapContainer, Marker, Polygon, Polyline, useMap, useMapEvents } from 'react-leaflet';
 import { useTheme } from '@/lib/theme';
-import { fieldColour, type FieldDomain } from '../lib/colour-scale';
+import { fieldPosition, NO_READING_COLOUR, rampColour, type FieldDomain } from '../lib/colour-scale';
 import { nearestWithin, TAP_RADIUS_PX } from '../lib/hit-test';
 import { planImageBoundsM, type PlanCalibrationInput } from '../lib/plan-frame';
 
@@ -33,7 +33,8 @@ export interface PlanRoom {
 export interface PlanViewProps {
   plan: PlanCalibrationInput;
   imageUrl: string | null | undefined;
-  stations: readonly PlanStation[];
+  /** Undefined while they are being read: nothing is drawn (and no empty plan flashes) until they are. */
+  stations: readonly PlanStation[] | undefined;
   rooms: readonly PlanRoom[];
   domain: FieldDomain;
   selectedStationId: string | null;
@@ -52,85 +53,161 @@ function cssVar(name: string, fallback: string): string {
 
 /** Radius of a station dot, screen px: big enough to see in a dim room, small enough not to hide the plan. */
 const STATION_RADIUS_PX = 7;
+/** Colour steps of the dots along the log-|B| ramp: 64 over the legend's 2–8 decades. */
+const DOT_COLOUR_STEPS = 64;
 
-interface DrawnStation {
-  marker: L.CircleMarker;
+/** A station as drawn: where (metres) and how (fill colour, or hollow for no reading yet). */
+interface Dot {
   xM: number;
   yM: number;
-  latestFieldT: number | null;
+  /** Fill colour, or null for a hollow ring (no reading yet). */
+  fill: string | null;
 }
 
 /**
- * Keeps one circle marker per station and touches only what changed: a save re-colours one dot
- * instead of rebuilding 5,000. A new colour domain or theme restyles every dot.
+ * One canvas for every station, drawn in one pass by Leaflet's canvas renderer machinery (it sizes,
+ * positions and pans the canvas, and calls _draw after every move and zoom) but without one Leaflet
+ * layer per station: 5,000 layers cost more to create and project than the dots cost to draw.
  */
-function StationsLayer({ stations, domain, theme }: { stations: readonly PlanStation[]; domain: FieldDomain; theme: string }) {
+const StationCanvas = L.Canvas.extend({
+  setDots(this: StationCanvasInstance, dots: readonly Dot[], outline: string, onDrawn: () => void) {
+    this._dots = dots;
+    this._outline = outline;
+    this._onDrawn = onDrawn;
+    if (!this._map) return;
+    this._redrawBounds = null;
+    if (!this._drawnOnce) {
+      // The first list is drawn at once: the dots are on the canvas when the data is, not a frame later.
+      this._drawnOnce = true;
+      if (this._redrawRequest) L.Util.cancelAnimFrame(this._redrawRequest);
+      this._redraw();
+      return;
+    }
+    // Later lists (a save re-colours a dot): the whole canvas once per frame, however often they come.
+    this._redrawRequest = this._redrawRequest || L.Util.requestAnimFrame(this._redraw, this);
+  },
+  _draw(this: StationCanvasInstance) {
+    const ctx = this._ctx;
+    const dots = this._dots ?? [];
+    const map = this._map;
+    if (!ctx || !map) return;
+    const { min, max } = this._bounds;
+    if (!min || !max) return;
+    const r = STATION_RADIUS_PX;
+    ctx.save();
+    ctx.globalAlpha = 1;
+    // Filled dots: outlined in the theme's foreground; one path per colour keeps state changes few.
+    const byFill = new Map<string, Array<{ x: number; y: number }>>();
+    const hollow: Array<{ x: number; y: number }> = [];
+    for (const d of dots) {
+      const p = map.latLngToLayerPoint([d.yM, d.xM]);
+      if (p.x < min.x - r - 3 || p.x > max.x + r + 3 || p.y < min.y - r - 3 || p.y > max.y + r + 3) continue;
+      if (d.fill === null) hollow.push(p);
+      else {
+        const list = byFill.get(d.fill);
+        if (list) list.push(p);
+        else byFill.set(d.fill, [p]);
+      }
+    }
+    ctx.lineWidth = 1.5;
+    ctx.strokeStyle = this._outline ?? '#101918';
+    for (const [fill, points] of byFill) {
+      ctx.beginPath();
+      for (const p of points) {
+        ctx.moveTo(p.x + r, p.y);
+        ctx.arc(p.x, p.y, r, 0, Math.PI * 2);
+      }
+      ctx.fillStyle = fill;
+      ctx.fill();
+      ctx.stroke();
+    }
+    if (hollow.length > 0) {
+      ctx.beginPath();
+      for (const p of hollow) {
+        ctx.moveTo(p.x + r, p.y);
+        ctx.arc(p.x, p.y, r, 0, Math.PI * 2);
+      }
+      ctx.lineWidth = 3;
+      ctx.strokeStyle = NO_READING_COLOUR;
+      ctx.stroke();
+    }
+    ctx.restore();
+    const done = this._onDrawn;
+    this._onDrawn = undefined;
+    done?.();
+  },
+});
+
+/** What StationCanvas adds, and the renderer internals it uses (Leaflet 1.9 Canvas). */
+interface StationCanvasInstance {
+  addTo(map: L.Map): unknown;
+  remove(): unknown;
+  _dots?: readonly Dot[];
+  _outline?: string;
+  _onDrawn?: () => void;
+  _drawnOnce?: boolean;
+  _ctx?: CanvasRenderingContext2D;
+  _map?: L.Map;
+  _bounds: L.Bounds;
+  _redrawBounds: L.Bounds | null;
+  _redrawRequest: number | null;
+  _redraw: () => void;
+  setDots(dots: readonly Dot[], outline: string, onDrawn: () => void): void;
+}
+
+/**
+ * The stations on one canvas. A save re-colours one dot: the dots are rebuilt from the list (cheap
+ * arithmetic) and drawn again in the next frame, one pass for all of them. The mark
+ * 'capture:stations-drawn' (read by tests/bench/capture.bench.ts) is set when a list has been drawn.
+ */
+function StationsLayer({ stations, domain, theme }: { stations: readonly PlanStation[] | undefined; domain: FieldDomain; theme: string }) {
   const map = useMap();
-  const renderer = useMemo(() => L.canvas({ padding: 0.5 }), []);
-  const drawn = useRef(new Map<string, DrawnStation>());
-  const group = useMemo(() => L.layerGroup(), []);
-  const styleKey = useRef('');
+  const renderer = useMemo(() => new (StationCanvas as unknown as new (options: L.RendererOptions) => StationCanvasInstance)({ padding: 0.5 }), []);
+  const colours = useRef(new Map<string, string | null>());
 
   useEffect(() => {
-    group.addTo(map);
-    const markers = drawn.current;
+    renderer.addTo(map);
     return () => {
-      group.remove();
-      markers.clear();
-      group.clearLayers();
+      renderer.remove();
     };
-  }, [map, group]);
+  }, [map, renderer]);
 
   useEffect(() => {
+    // Nothing to draw until the stations are read: the first paint is the real one.
+    if (stations === undefined) return;
     const outline = cssVar('--fw-fg', '#101918');
-    const style = (fieldT: number | null): L.CircleMarkerOptions => ({
-      color: fieldT !== null ? outline : fieldColour(null, domain),
-      weight: fieldT !== null ? 1.5 : 3,
-      fill: fieldT !== null,
-      fillColor: fieldColour(fieldT, domain),
-      fillOpacity: 1,
-    });
-    const key = `${domain.minT}:${domain.maxT}:${theme}:${outline}`;
-    const restyleAll = key !== styleKey.current;
-    styleKey.current = key;
-    const markers = drawn.current;
-    const seen = new Set<string>();
-    for (const s of stations) {
-      seen.add(s.id);
-      const current = markers.get(s.id);
-      if (!current) {
-        const marker = L.circleMarker([s.yM, s.xM], { renderer, radius: STATION_RADIUS_PX, interactive: false, ...style(s.latestFieldT) }).addTo(group);
-        markers.set(s.id, { marker, xM: s.xM, yM: s.yM, latestFieldT: s.latestFieldT });
-        continue;
-      }
-      if (current.xM !== s.xM || current.yM !== s.yM) {
-        current.marker.setLatLng([s.yM, s.xM]);
-        current.xM = s.xM;
-        current.yM = s.yM;
-      }
-      if (restyleAll || current.latestFieldT !== s.latestFieldT) {
-        current.marker.setStyle(style(s.latestFieldT));
-        current.latestFieldT = s.latestFieldT;
-      }
+    // One colour per ramp step, worked out once per domain.
+    const key = `${domain.minT}:${domain.maxT}`;
+    if (colours.current.get('') !== key) {
+      colours.current = new Map([['', key]]);
     }
-    for (const [id, d] of markers) {
-      if (!seen.has(id)) {
-        d.marker.remove();
-        markers.delete(id);
+    const cache = colours.current;
+    const dots: Dot[] = new Array(stations.length);
+    for (let i = 0; i < stations.length; i++) {
+      const s = stations[i] as PlanStation;
+      // The ramp in DOT_COLOUR_STEPS steps (finer than the eye tells apart on a 7 px dot): the canvas
+      // then fills one path per step, not one per station.
+      const step = s.latestFieldT === null ? -1 : Math.round(fieldPosition(s.latestFieldT, domain) * (DOT_COLOUR_STEPS - 1));
+      const k = String(step);
+      let fill = cache.get(k);
+      if (fill === undefined) {
+        fill = step < 0 ? null : rampColour(step / (DOT_COLOUR_STEPS - 1));
+        cache.set(k, fill);
       }
+      dots[i] = { xM: s.xM, yM: s.yM, fill };
     }
-    // Leaflet's canvas renderer draws in the next animation frame; this callback runs after it, so the
-    // mark (read by tests/bench/capture.bench.ts) is the moment the dots are on the canvas.
-    const frame = requestAnimationFrame(() => {
-      map.getContainer().dataset.stationsDrawn = String(stations.length);
-      if (typeof performance.mark === 'function') performance.mark('capture:stations-drawn', { detail: { count: stations.length } });
+    const count = stations.length;
+    renderer.setDots(dots, outline, () => {
+      map.getContainer().dataset.stationsDrawn = String(count);
+      if (typeof performance.mark === 'function') performance.mark('capture:stations-drawn', { detail: { count } });
     });
-    return () => cancelAnimationFrame(frame);
-  }, [map, renderer, group, stations, domain, theme]);
+  }, [map, renderer, stations, domain, theme]);
   return null;
 }
 
-function TapHandler({ stations, onPick, onPlace }: Pick<PlanViewProps, 'stations' | 'onPick' | 'onPlace'>) {
+const NO_STATIONS: readonly PlanStation[] = [];
+
+function TapHandler({ stations, onPick, onPlace }: { stations: readonly PlanStation[] } & Pick<PlanViewProps, 'onPick' | 'onPlace'>) {
   const map = useMapEvents({
     click(event) {
       const tap = { xM: event.latlng.lng, yM: event.latlng.lat };
@@ -163,17 +240,44 @@ function pendingIcon() {
   });
 }
 
+/** The plan image and the room outlines: re-rendered only when the plan, its rooms or the theme change, never by a save. */
+const PlanBackdrop = memo(function PlanBackdrop({ imageUrl, bounds, rooms, theme }: { imageUrl: string | null | undefined; bounds: L.LatLngBounds; rooms: readonly PlanRoom[]; theme: string }) {
+  const border = useMemo(() => cssVar('--fw-field-border', '#66706c'), [theme]); // eslint-disable-line react-hooks/exhaustive-deps
+  const pathOptions = useMemo(() => ({ color: border, weight: 1, fill: false, interactive: false }), [border]);
+  const outlines = useMemo(() => rooms.map((r) => ({ id: r.id, positions: r.polygon.map(([x, y]) => [y, x] as [number, number]) })), [rooms]);
+  return (
+    <>
+      {imageUrl && <ImageOverlay key={theme} url={imageUrl} bounds={bounds} className={theme === 'hall' ? 'brightness-75' : ''} />}
+      {outlines.map((r) => (
+        <Polygon key={r.id} positions={r.positions} pathOptions={pathOptions} />
+      ))}
+    </>
+  );
+});
+
+/** The current walk's path; the same points keep the same line (a save at the same station redraws nothing). */
+const WalkPathLine = memo(
+  function WalkPathLine({ walkPath, theme }: { walkPath: ReadonlyArray<readonly [number, number]>; theme: string }) {
+    const accent = useMemo(() => cssVar('--fw-accent', '#145955'), [theme]); // eslint-disable-line react-hooks/exhaustive-deps
+    const pathOptions = useMemo(() => ({ color: accent, weight: 4, opacity: 0.85, dashArray: '8 6', interactive: false }), [accent]);
+    const positions = useMemo(() => walkPath.map(([x, y]) => [y, x] as [number, number]), [walkPath]);
+    if (walkPath.length < 2) return null;
+    return <Polyline positions={positions} pathOptions={pathOptions} />;
+  },
+  (a, b) => a.theme === b.theme && a.walkPath.length === b.walkPath.length && a.walkPath.every((p, i) => p[0] === b.walkPath[i]?.[0] && p[1] === b.walkPath[i]?.[1]),
+);
+
 export const PlanView = memo(function PlanView(props: PlanViewProps) {
-  const { plan, imageUrl, stations, rooms, domain, selectedStationId, pendingPoint, walkPath, remeasureStationIds, className = '' } = props;
+  const { plan, imageUrl, rooms, domain, selectedStationId, pendingPoint, walkPath, remeasureStationIds, className = '' } = props;
+  const stations = props.stations ?? NO_STATIONS;
   const { theme } = useTheme();
   const { bounds, calibrated } = planImageBoundsM(plan);
-  const leafletBounds = L.latLngBounds(bounds);
+  const boundsKey = JSON.stringify(bounds);
+  const leafletBounds = useMemo(() => L.latLngBounds(bounds), [boundsKey]); // eslint-disable-line react-hooks/exhaustive-deps
   const selected = stations.find((s) => s.id === selectedStationId) ?? null;
-  const badges = stations.filter((s) => remeasureStationIds.has(s.id));
+  const badges = useMemo(() => (remeasureStationIds.size === 0 ? NO_STATIONS : stations.filter((s) => remeasureStationIds.has(s.id))), [stations, remeasureStationIds]);
   const icons = useRef({ badge: badgeIcon(), pending: pendingIcon() });
-  const accent = cssVar('--fw-accent', '#145955');
-  const ring = cssVar('--fw-ring', '#a15726');
-  const border = cssVar('--fw-field-border', '#66706c');
+  const ring = useMemo(() => cssVar('--fw-ring', '#a15726'), [theme]); // eslint-disable-line react-hooks/exhaustive-deps -- the theme changes the CSS variable
 
   return (
     <div className={`relative overflow-hidden rounded-lg border-2 border-border bg-surface-sunken ${className}`}>
@@ -190,14 +294,9 @@ export const PlanView = memo(function PlanView(props: PlanViewProps) {
         style={{ background: 'transparent' }}
         aria-label="Plan of the level: tap to place a station or pick one"
       >
-        {imageUrl && <ImageOverlay key={theme} url={imageUrl} bounds={leafletBounds} className={theme === 'hall' ? 'brightness-75' : ''} />}
-        {rooms.map((r) => (
-          <Polygon key={r.id} positions={r.polygon.map(([x, y]) => [y, x] as [number, number])} pathOptions={{ color: border, weight: 1, fill: false, interactive: false }} />
-        ))}
-        {walkPath.length > 1 && (
-          <Polyline positions={walkPath.map(([x, y]) => [y, x] as [number, number])} pathOptions={{ color: accent, weight: 4, opacity: 0.85, dashArray: '8 6', interactive: false }} />
-        )}
-        <StationsLayer stations={stations} domain={domain} theme={theme} />
+        <PlanBackdrop imageUrl={imageUrl} bounds={leafletBounds} rooms={rooms} theme={theme} />
+        <WalkPathLine walkPath={walkPath} theme={theme} />
+        <StationsLayer stations={props.stations} domain={domain} theme={theme} />
         {selected && <SelectedRing xM={selected.xM} yM={selected.yM} colour={ring} />}
         {pendingPoint && <Marker position={[pendingPoint.yM, pendingPoint.xM]} icon={icons.current.pending} interactive={false} keyboard={false} />}
         {badges.map((s) => (

@@ -1,3 +1,4 @@
+import { memo } from 'react';
 import type { DecisionRow } from '@/db';
 import { Button } from '@/components/button';
 import { formatFluxDensity } from '@shared/units';
@@ -15,7 +16,7 @@ export interface StationPanelProps {
 }
 
 /** Which station the form will save to: the one picked, or the new one placed by the last tap. */
-export function StationPanel({ target, unit, remeasure, onClear }: StationPanelProps) {
+export const StationPanel = memo(function StationPanel({ target, unit, remeasure, onClear }: StationPanelProps) {
   if (!target) {
     return (
       <div className="rounded-lg border-2 border-dashed border-field-border p-3" data-testid="station-panel">
@@ -54,4 +55,4 @@ export function StationPanel({ target, unit, remeasure, onClear }: StationPanelP
       </Button>
     </div>
   );
-}
+});

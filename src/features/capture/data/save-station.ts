@@ -1,5 +1,6 @@
 import { StationSchema, type Station } from '@shared/schemas/capture';
 import { db, type StationRow } from '@/db';
+import { refreshStationLatest } from './station-latest';
 import { saveSynced, type SyncedWriteSpec } from './write-synced';
 
 export type StationInput = Omit<Station, 'id' | 'revision' | 'deleted'> & { id?: string };
@@ -12,11 +13,7 @@ export const stationSpec = (): SyncedWriteSpec<Station, StationRow> => ({
   extraTables: [db.fieldReadings],
   // latestFieldT is derived from readings, so an edit of the station keeps it.
   toRow: (record) => ({ ...record, latestFieldT: null }),
-  after: async (record) => {
-    const readings = await db.fieldReadings.where('stationId').equals(record.id).toArray();
-    const live = readings.filter((r) => !r.deleted).sort((a, b) => (a.measuredAt < b.measuredAt ? 1 : -1));
-    if (live[0]) await db.stations.update(record.id, { latestFieldT: live[0].fieldT });
-  },
+  after: (record) => refreshStationLatest(record.id),
 });
 
 /** Place a new station (no id) or edit one (its id). Validated; written with its outbox entry atomically. */

@@ -53,28 +53,61 @@ function queue(entity: CaptureEntity, record: SyncedRecord, baseRevision: number
   return { ...mutation, status: 'pending', error: null };
 }
 
+/** A record checked against its wire schema, ready to be written by writeSyncedInTx. */
+export interface SyncedDraft<R extends SyncedRecord, Row extends R> {
+  spec: SyncedWriteSpec<R, Row>;
+  draft: R;
+  /** The id was made here, so no stored version can exist: the write skips looking for one. */
+  fresh: boolean;
+}
+
+/** Validate a create or edit before any transaction opens: bad input never touches the store. */
+export function draftSynced<R extends SyncedRecord, Row extends R>(
+  spec: SyncedWriteSpec<R, Row>,
+  input: Omit<R, 'id' | 'revision' | 'deleted'> & { id?: string },
+): SyncedDraft<R, Row> {
+  const id = input.id ?? uuidv7();
+  return { spec, draft: parseRecord(spec.schema, { ...input, id, revision: 1, deleted: false }), fresh: input.id === undefined };
+}
+
+/** Every table a write of these drafts touches: theirs, the outbox, and their extra tables. */
+export function tablesFor(...drafts: ReadonlyArray<{ spec: { table: unknown; extraTables?: Table[] } }>): Table[] {
+  const tables = new Set<Table>([db.outbox]);
+  for (const { spec } of drafts) {
+    tables.add(spec.table as Table);
+    for (const t of spec.extraTables ?? []) tables.add(t);
+  }
+  return [...tables];
+}
+
+/**
+ * Write one validated record and its outbox entry inside the caller's transaction (which must include
+ * tablesFor(it)). Several calls in one transaction are all-or-nothing: a station made by the first
+ * reading on a new spot is written with that reading, never without it.
+ */
+export async function writeSyncedInTx<R extends SyncedRecord, Row extends R>({ spec, draft, fresh }: SyncedDraft<R, Row>, tx: Transaction): Promise<R> {
+  const previous = fresh ? undefined : await spec.table.get(draft.id);
+  if (previous?.deleted) throw new CaptureError('RECORD_NOT_FOUND', `${spec.label} was deleted; it cannot be edited.`);
+  if (previous && (previous.surveyId !== draft.surveyId || previous.organisationId !== draft.organisationId)) {
+    throw new CaptureError('RECORD_CONFLICT', `${spec.label} belongs to another survey.`);
+  }
+  const baseRevision = previous?.revision ?? 0;
+  const record = { ...draft, revision: nextRevision(baseRevision) };
+  // Both requests go to IndexedDB at once (a transaction runs its requests in order): one round trip.
+  await Promise.all([spec.table.put(spec.toRow(record)), db.outbox.add(queue(spec.entity, record, baseRevision))]);
+  await spec.after?.(record, previous, tx);
+  return record;
+}
+
 /** Create (no id, or an id the device does not hold) or edit (an id it holds) one record. */
 export async function saveSynced<R extends SyncedRecord, Row extends R>(
   spec: SyncedWriteSpec<R, Row>,
   input: Omit<R, 'id' | 'revision' | 'deleted'> & { id?: string },
 ): Promise<R> {
-  const id = input.id ?? uuidv7();
   // Validate before opening the transaction: bad input never touches the store.
-  const draft = parseRecord(spec.schema, { ...input, id, revision: 1, deleted: false });
+  const prepared = draftSynced(spec, input);
   try {
-    return await db.transaction('rw', [spec.table, db.outbox, ...(spec.extraTables ?? [])], async (tx) => {
-      const previous = await spec.table.get(id);
-      if (previous?.deleted) throw new CaptureError('RECORD_NOT_FOUND', `${spec.label} was deleted; it cannot be edited.`);
-      if (previous && (previous.surveyId !== draft.surveyId || previous.organisationId !== draft.organisationId)) {
-        throw new CaptureError('RECORD_CONFLICT', `${spec.label} belongs to another survey.`);
-      }
-      const baseRevision = previous?.revision ?? 0;
-      const record = { ...draft, revision: nextRevision(baseRevision) };
-      await spec.table.put(spec.toRow(record));
-      await db.outbox.add(queue(spec.entity, record, baseRevision));
-      await spec.after?.(record, previous, tx);
-      return record;
-    });
+    return await db.transaction('rw', [spec.table, db.outbox, ...(spec.extraTables ?? [])], (tx) => writeSyncedInTx(prepared, tx));
   } catch (error) {
     throw toCaptureError(error);
   }
