@@ -66,6 +66,50 @@ describe('push', () => {
     expect(row).toEqual({ revision: 1, field_t: 2e-4 });
   });
 
+  it('when retries of a batch race the first attempt, it is applied once and every attempt gets the same answers', async () => {
+    const station = makeStation(scope);
+    await pushOk(surveyor, [mutationFor('stations', station)]);
+    const moved = edited(station, { notes: 'moved to the door frame' });
+    const readings = Array.from({ length: 200 }, (_, n) => makeReading(scope, station.id, { magnitudeT: (n + 1) * 1e-5 }));
+    const batch = [mutationFor('stations', moved, 1), ...readings.map((r) => mutationFor('field_readings', r))];
+    const seqBefore = Number((await sql<{ change_seq: string }>(t.databaseUrl, 'SELECT change_seq FROM organisations WHERE id = $1', [ids.orgId]))[0]!.change_seq);
+
+    // Three attempts at once: one applies, the others wait for it and are answered from what it stored.
+    const attempts = await Promise.all([1, 2, 3].map(() => pushOk(surveyor, batch)));
+    expect(attempts[0]!.every((r) => r.status === 'applied')).toBe(true);
+    expect(attempts[1]).toEqual(attempts[0]);
+    expect(attempts[2]).toEqual(attempts[0]);
+    const readingIds = readings.map((r) => `'${r.id}'`).join(',');
+    expect(await countRows(t.databaseUrl, 'field_readings', `id IN (${readingIds})`)).toBe(200);
+    expect(await countRows(t.databaseUrl, 'change_log', `entity_id IN (${readingIds}, '${station.id}')`)).toBe(202); // the station: created, then moved once
+    expect(await countRows(t.databaseUrl, 'sync_mutations', `mutation_id IN (${batch.map((m) => `'${m.mutationId}'`).join(',')})`)).toBe(201);
+    expect(await countRows(t.databaseUrl, 'sync_conflicts', `record_id = '${station.id}'`)).toBe(0);
+    const [row] = await sql<{ revision: number; notes: string }>(t.databaseUrl, 'SELECT revision, notes FROM stations WHERE id = $1', [station.id]);
+    expect(row).toEqual({ revision: 2, notes: 'moved to the door frame' });
+    const seqAfter = Number((await sql<{ change_seq: string }>(t.databaseUrl, 'SELECT change_seq FROM organisations WHERE id = $1', [ids.orgId]))[0]!.change_seq);
+    expect(seqAfter - seqBefore).toBe(201);
+  });
+
+  it('takes one change sequence per change, none for rejected or answered mutations', async () => {
+    const orgSeq = async () => Number((await sql<{ change_seq: string }>(t.databaseUrl, 'SELECT change_seq FROM organisations WHERE id = $1', [ids.orgId]))[0]!.change_seq);
+    const station = makeStation(scope);
+    const good = mutationFor('stations', station);
+    const orphan = mutationFor('field_readings', makeReading(scope, uuidv7())); // its station is not on the server
+    const malformed = { ...mutationFor('stations', makeStation(scope)), baseRevision: -1 };
+    const before = await orgSeq();
+    const results = await pushOk(surveyor, [good, orphan, malformed]);
+    expect(results.map((r) => (r.status === 'rejected' ? r.error.code : r.status))).toEqual(['applied', 'STATION_UNKNOWN', 'VALIDATION_FAILED']);
+    expect(results[0]!.status === 'applied' && results[0]!.changeSeq).toBe(before + 1);
+    expect(await orgSeq()).toBe(before + 1);
+    // Only rejections, then only answered mutations: the counter does not move.
+    expect((await pushOk(surveyor, [orphan, malformed])).every((r) => r.status === 'rejected')).toBe(true);
+    expect(await pushOk(surveyor, [good])).toEqual([results[0]]);
+    expect(await orgSeq()).toBe(before + 1);
+    // The next change follows without a gap.
+    const [next] = await pushOk(surveyor, [mutationFor('stations', makeStation(scope))]);
+    expect(next!.status === 'applied' && next!.changeSeq).toBe(before + 2);
+  });
+
   it('applies a create and two edits of one record in one batch as revisions 1, 2, 3', async () => {
     const station = makeStation(scope);
     const r1 = makeReading(scope, station.id);

@@ -22,10 +22,18 @@
  * its own new flag); a flag a person has acknowledged or resolved is left as they left it — it is their
  * record of what they did.
  *
- * When: the push transaction puts the survey in repeat_recompute_queue; right after the commit this
- * module recomputes it, debounced per survey (a device pushing twenty batches in a row costs one
- * recomputation, not twenty); GET …/repeats recomputes before answering, so it is never stale; and on
- * start every survey still queued (a crash between push and recomputation) is recomputed.
+ * When: the push transaction puts the survey in repeat_recompute_queue; after the commit this module
+ * recomputes it, debounced per survey (a device pushing twenty batches in a row costs one recomputation,
+ * not twenty); GET …/repeats recomputes before answering, so it is never stale; and on start every
+ * survey still queued (a crash between push and recomputation) is recomputed.
+ *
+ * Without holding up requests: a large survey (tens of thousands of readings) takes a second or more of
+ * CPU to group, so the grouping runs in slices — readings split into parts no group can span (below),
+ * grouped a few parts at a time — yielding the event loop between slices (`setImmediate`), so pushes,
+ * pulls and page loads are served in between. And a push never waits for a recomputation in the
+ * database: the queue entry is not locked while the survey is computed, only removed at the end if no
+ * push has stamped it again meanwhile (else the survey stays queued and is computed again). Recomputing
+ * is idempotent, so running it again, or twice at once (one waits for the other's lock), is harmless.
  */
 import { v7 as uuidv7 } from 'uuid';
 import { groupRepeatReadings, type RepeatReading } from '../../../shared/physics/repeats';
@@ -40,9 +48,16 @@ import type { SyncRepository } from './sync.repository';
 export const COVERAGE_FACTOR_K = 2;
 /** Relative standard uncertainty assumed for a gaussmeter that states none (common practice; recalled). */
 export const DEFAULT_RELATIVE_STANDARD_UNCERTAINTY = 0.02;
-/** Quiet time after the last push before the survey is recomputed, and the longest a survey waits. */
-export const REPEAT_RECOMPUTE_DEBOUNCE_MS = 250;
-export const REPEAT_RECOMPUTE_MAX_WAIT_MS = 3_000;
+/**
+ * Quiet time after the last push before the survey is recomputed, and the longest a survey waits while
+ * pushes keep coming. A long sync (hundreds of batches, seconds apart on a slow link) would otherwise
+ * pay a full recomputation every few seconds — each up to a second or more of CPU for a large survey —
+ * for groups nobody is looking at; whoever looks (GET …/repeats) gets them fresh.
+ */
+export const REPEAT_RECOMPUTE_DEBOUNCE_MS = 1_000;
+export const REPEAT_RECOMPUTE_MAX_WAIT_MS = 10_000;
+/** CPU time one slice of a recomputation may take before it yields the event loop. */
+export const REPEAT_SLICE_MS = 8;
 /** Delay before surveys left queued by an earlier process are picked up. */
 const RESUME_DELAY_MS = 1_000;
 
@@ -58,6 +73,65 @@ function stableJson(value: unknown): string {
   return JSON.stringify(value ?? null);
 }
 
+/**
+ * Splits readings (x, y, z in metres) into parts that no repeat group can span: cells of twice the radius
+ * on each axis, with neighbouring occupied cells (26-neighbourhood) joined. Two readings within the
+ * radius lie in the same cell or in neighbouring ones (with room to spare for rounding), so every group
+ * the single-linkage grouping finds lies inside one part, and grouping each part alone finds exactly the
+ * groups of the whole. Parts come in the order of their first reading. `pause` is awaited now and then
+ * (the caller's yield), so a survey of many cells is split without holding the event loop.
+ */
+export async function independentParts<T extends { xM: number; yM: number; zM?: number }>(readings: readonly T[], radiusM: number, pause: () => Promise<void> = async () => {}): Promise<T[][]> {
+  const size = 2 * radiusM;
+  const keyOf = (cx: number, cy: number, cz: number) => `${cx},${cy},${cz}`;
+  const cellIndex = new Map<string, number>();
+  const cellOf = new Int32Array(readings.length);
+  const coords: [number, number, number][] = [];
+  readings.forEach((r, i) => {
+    const c: [number, number, number] = [Math.floor(r.xM / size), Math.floor(r.yM / size), Math.floor((r.zM ?? 0) / size)];
+    const key = keyOf(...c);
+    let index = cellIndex.get(key);
+    if (index === undefined) {
+      index = coords.length;
+      cellIndex.set(key, index);
+      coords.push(c);
+    }
+    cellOf[i] = index;
+  });
+  const parent = Int32Array.from({ length: coords.length }, (_, i) => i);
+  const find = (i: number): number => {
+    while (parent[i] !== i) {
+      parent[i] = parent[parent[i]!]!;
+      i = parent[i]!;
+    }
+    return i;
+  };
+  for (let index = 0; index < coords.length; index += 1) {
+    const [cx, cy, cz] = coords[index]!;
+    for (let dx = -1; dx <= 1; dx += 1)
+      for (let dy = -1; dy <= 1; dy += 1)
+        for (let dz = -1; dz <= 1; dz += 1) {
+          const other = cellIndex.get(keyOf(cx + dx, cy + dy, cz + dz));
+          if (other === undefined) continue;
+          const a = find(index);
+          const b = find(other);
+          if (a !== b) parent[Math.max(a, b)] = Math.min(a, b);
+        }
+    if (index % 2_000 === 1_999) await pause();
+  }
+  const parts = new Map<number, T[]>();
+  readings.forEach((r, i) => {
+    const root = find(cellOf[i]!);
+    const part = parts.get(root);
+    if (part) part.push(r);
+    else parts.set(root, [r]);
+  });
+  return [...parts.values()];
+}
+
+/** Yields the event loop: whatever is waiting (requests, I/O) runs before the work goes on. */
+const yieldToEventLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
+
 export interface RepeatResult {
   surveyId: string;
   radiusM: number;
@@ -66,18 +140,35 @@ export interface RepeatResult {
   groups: RepeatGroupView[];
 }
 
-export function createRepeatsService(deps: { repo: SyncRepository; logger: Logger }) {
+export interface RepeatsServiceDeps {
+  repo: SyncRepository;
+  logger: Logger;
+  /** Awaited between slices of a recomputation (default: yield the event loop with setImmediate). */
+  pause?: () => Promise<void>;
+  /** CPU time per slice, ms (default REPEAT_SLICE_MS; 0 pauses after every part). */
+  sliceMs?: number;
+}
+
+export function createRepeatsService(deps: RepeatsServiceDeps) {
   const { repo, logger } = deps;
+  const pause = deps.pause ?? yieldToEventLoop;
+  const sliceMs = deps.sliceMs ?? REPEAT_SLICE_MS;
   const timers = new Map<string, { timer: NodeJS.Timeout; firstAt: number; organisationId: string }>();
   const running = new Map<string, Promise<unknown>>();
   let closed = false;
 
   async function computeAndStore(tx: Tx, organisationId: string, surveyId: string, onlyIfQueued: boolean): Promise<RepeatResult | null> {
-    const queued = await repo.beginRepeatRecompute(tx, surveyId);
+    const stamp = await repo.beginRepeatRecompute(tx, surveyId);
     // A scheduled run whose survey someone else recomputed meanwhile (GET …/repeats) has nothing to do.
-    if (onlyIfQueued && !queued) return null;
+    if (onlyIfQueued && stamp === null) return null;
+    const done = async () => {
+      if (stamp !== null) await repo.finishRepeatRecompute(tx, surveyId, stamp);
+    };
     const survey = await repo.surveyForRepeats(tx, organisationId, surveyId);
-    if (!survey || survey.deleted) return null;
+    if (!survey || survey.deleted) {
+      await done();
+      return null;
+    }
     const inputs = await repo.repeatInputs(tx, organisationId, surveyId);
     const byLevel = new Map<string, typeof inputs>();
     for (const r of inputs) {
@@ -87,6 +178,14 @@ export function createRepeatsService(deps: { repo: SyncRepository; logger: Logge
     }
     const stationOf = new Map(inputs.map((r) => [r.id, r.station_id]));
 
+    // In slices: each part of a level grouped on its own (the same groups as the whole level), the event
+    // loop yielded whenever a slice has taken its share of CPU time.
+    let sliceStart = performance.now();
+    const maybePause = async () => {
+      if (performance.now() - sliceStart < sliceMs) return;
+      await pause();
+      sliceStart = performance.now();
+    };
     const groups: RepeatGroupView[] = [];
     for (const [levelId, rows] of byLevel) {
       const readings: RepeatReading[] = rows.map((r) => ({
@@ -97,7 +196,12 @@ export function createRepeatsService(deps: { repo: SyncRepository; logger: Logge
         fieldTesla: r.field_t,
         relativeExpandedUncertainty: COVERAGE_FACTOR_K * (r.relative_uncertainty ?? DEFAULT_RELATIVE_STANDARD_UNCERTAINTY),
       }));
-      for (const g of groupRepeatReadings(readings, { radiusM: survey.repeatRadiusM })) {
+      const found = [];
+      for (const part of await independentParts(readings, survey.repeatRadiusM, maybePause)) {
+        if (part.length >= 2) found.push(...groupRepeatReadings(part, { radiusM: survey.repeatRadiusM }));
+        await maybePause();
+      }
+      for (const g of found) {
         const readingIds = [...g.readingIds].sort();
         groups.push({
           fingerprint: `repeat:${sha256Hex(readingIds.join(','))}`,
@@ -114,9 +218,10 @@ export function createRepeatsService(deps: { repo: SyncRepository; logger: Logge
           disagree: g.disagree,
           flagId: null,
         });
+        await maybePause();
       }
     }
-    groups.sort((a, b) => a.fingerprint.localeCompare(b.fingerprint));
+    groups.sort((a, b) => (a.fingerprint < b.fingerprint ? -1 : a.fingerprint > b.fingerprint ? 1 : 0));
 
     // Flags: one per disagreeing group, found again by fingerprint.
     const existing = new Map((await repo.repeatFlags(tx, organisationId, surveyId)).map((f) => [f.fingerprint, f]));
@@ -149,7 +254,10 @@ export function createRepeatsService(deps: { repo: SyncRepository; logger: Logge
     const toWithdraw = [...existing.values()].filter((f) => !wanted.has(f.fingerprint) && f.state === 'open');
     // A signed-off survey is a closed record: its groups are shown, its flags are not changed.
     const writes = survey.state === 'signed_off' ? 0 : toRaise.length + toRewrite.length + toWithdraw.length;
-    if (writes === 0) return { surveyId, radiusM: survey.repeatRadiusM, coverageFactor: COVERAGE_FACTOR_K, defaultRelativeStandardUncertainty: DEFAULT_RELATIVE_STANDARD_UNCERTAINTY, groups };
+    if (writes === 0) {
+      await done();
+      return { surveyId, radiusM: survey.repeatRadiusM, coverageFactor: COVERAGE_FACTOR_K, defaultRelativeStandardUncertainty: DEFAULT_RELATIVE_STANDARD_UNCERTAINTY, groups };
+    }
 
     // Sequences last, then a few multi-row statements: the organisation's counter lock is held briefly.
     const seqs = await repo.reserveChangeSeqs(tx, organisationId, writes);
@@ -189,6 +297,7 @@ export function createRepeatsService(deps: { repo: SyncRepository; logger: Logge
         after: { ...c.flag, details: c.details, deleted: c.deleted, revision: c.flag.revision + 1, changeSeq: c.seq },
       })),
     ]);
+    await done();
     return { surveyId, radiusM: survey.repeatRadiusM, coverageFactor: COVERAGE_FACTOR_K, defaultRelativeStandardUncertainty: DEFAULT_RELATIVE_STANDARD_UNCERTAINTY, groups };
   }
 

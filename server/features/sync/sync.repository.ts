@@ -1,9 +1,14 @@
 /**
  * Every database statement of sync (push, pull, conflicts, repeat groups). The bulk paths — applying a
- * push, its change_log rows, the processed-mutation rows — are single `INSERT … SELECT FROM unnest(…)`
- * statements with one array per column (STACK.md, "Performance facts": Drizzle's builder spends most of
- * its time building SQL text for many rows); Drizzle's builder is kept for the reads and the few-row
- * writes. The rules live in sync.service.ts.
+ * push, its change_log rows, the processed-mutation rows — are single `INSERT … SELECT FROM
+ * json_to_recordset($1)` statements: the rows travel as ONE JSON text (JSON.stringify is native and
+ * needs no per-element escaping, where a text array per column costs the driver a JavaScript pass over
+ * every value; STACK.md, "Performance facts": Drizzle's builder spends most of its time building SQL
+ * text for many rows). Lookups by a batch's ids join `unnest(ids)` LATERAL to a key lookup that cannot
+ * be flattened into a join (LIMIT 1, or FOR UPDATE), so each id is one index probe whatever the planner
+ * believes about a table a bulk push has just grown (`id = ANY(…)` and plain joins became sequential
+ * scans of the whole table there). Drizzle's builder is kept for the other reads
+ * and the few-row writes. The rules live in sync.service.ts.
  */
 import { and, asc, eq, getTableColumns, inArray, sql, type SQL } from 'drizzle-orm';
 import type { PgColumn, PgTable } from 'drizzle-orm/pg-core';
@@ -21,7 +26,6 @@ import {
   surveys,
   sweeps,
   syncConflicts,
-  syncMutations,
   walks,
   watchBands,
   zoneSets,
@@ -76,8 +80,9 @@ export function constraintOf(error: unknown): { code: string; constraint: string
 interface ColumnSpec {
   key: string;
   name: string;
-  cast: string;
-  json: boolean;
+  /** The SQL type, e.g. `uuid`, `double precision`, an enum's name. */
+  type: string;
+  column: PgColumn;
 }
 
 /** Columns a push writes: everything but the generated |B| and the server-kept timestamps. */
@@ -85,27 +90,84 @@ function writableColumns(table: PgTable): ColumnSpec[] {
   return Object.entries(getTableColumns(table))
     .filter(([key, column]) => !(column as PgColumn & { generated?: unknown }).generated && key !== 'createdAt' && key !== 'updatedAt')
     .map(([key, column]) => {
-      const type = column.getSQLType();
-      return { key, name: column.name, cast: `${type}[]`, json: type === 'jsonb' };
+      return { key, name: column.name, type: column.getSQLType(), column: column as PgColumn };
     });
 }
 
 const WRITABLE = Object.fromEntries(Object.entries(CAPTURE_TABLES).map(([entity, table]) => [entity, writableColumns(table)])) as Record<CaptureEntity, ColumnSpec[]>;
 
-function toArrays(columns: ColumnSpec[], rows: Record<string, unknown>[]): SQL[] {
-  return columns.map((c) => {
-    const values = rows.map((row) => {
-      const v = row[c.key];
-      if (v === undefined || v === null) return null;
-      if (c.json) return JSON.stringify(v);
-      if (v instanceof Date) return v.toISOString();
-      return v;
-    });
-    return sql`${sql.param(values)}::${sql.raw(c.cast)}`;
-  });
+const q = (name: string) => `"${name.replace(/"/g, '""')}"`;
+
+/**
+ * `json_to_recordset($1::json) AS u("organisationId" uuid, …)`: the rows' own (camelCase) keys name the
+ * record's columns, so the rows are sent as they are, one JSON text (missing keys read as NULL, keys the
+ * table lacks are ignored; Dates become ISO strings; a jsonb column takes the nested value).
+ */
+function recordset(columns: ColumnSpec[], rows: Record<string, unknown>[]): { from: SQL; select: string; names: string } {
+  const defs = columns.map((c) => `${q(c.key)} ${c.type}`).join(', ');
+  return {
+    from: sql`json_to_recordset(${JSON.stringify(rows)}::json) AS u(${sql.raw(defs)})`,
+    select: columns.map((c) => `u.${q(c.key)}`).join(', '),
+    names: columns.map((c) => q(c.name)).join(', '),
+  };
 }
 
-const q = (name: string) => `"${name.replace(/"/g, '""')}"`;
+/** Every column of a capture table (generated |B| included), for reading whole rows with raw SQL. */
+const READ_COLUMNS = Object.fromEntries(
+  Object.entries(CAPTURE_TABLES).map(([entity, table]) => [entity, Object.entries(getTableColumns(table)).map(([key, column]) => ({ key, name: column.name, column }))]),
+) as Record<CaptureEntity, { key: string; name: string; column: PgColumn }[]>;
+
+/** A row as `to_jsonb` gives it (column names, JSON values) in Drizzle's shape (camelCase keys, Dates). */
+function mapRow(entity: CaptureEntity, raw: Record<string, unknown>): DbRow {
+  const out: Record<string, unknown> = {};
+  for (const { key, name, column } of READ_COLUMNS[entity]) {
+    const v = raw[name];
+    out[key] = v === null || v === undefined ? null : column.mapFromDriverValue(v);
+  }
+  return out as DbRow;
+}
+
+/**
+ * Inserts records or overwrites existing ones of one entity. The WHERE keeps a row of another
+ * organisation untouched even if a check upstream were missed.
+ */
+function upsertStatement(entity: CaptureEntity, rows: Record<string, unknown>[]): SQL {
+  const table = q(entity);
+  const columns = WRITABLE[entity];
+  const u = recordset(columns, rows);
+  const updates = columns
+    .filter((c) => c.key !== 'id' && c.key !== 'organisationId')
+    .map((c) => `${q(c.name)} = EXCLUDED.${q(c.name)}`)
+    .join(', ');
+  return sql`
+    INSERT INTO ${sql.raw(table)} (${sql.raw(u.names)}, updated_at)
+    SELECT ${sql.raw(u.select)}, now() FROM ${u.from}
+    ON CONFLICT (id) DO UPDATE SET ${sql.raw(updates)}, updated_at = now()
+    WHERE ${sql.raw(table)}.organisation_id = EXCLUDED.organisation_id`;
+}
+
+const uuids = (ids: readonly string[]) => sql`${sql.param([...new Set(ids)])}::uuid[]`;
+
+/** What a push batch needs to know before deciding, read in one statement (see `batchContext`). */
+export interface BatchContext {
+  /** Stored answers of mutation ids seen before (with their mutation id). */
+  seen: Map<string, Record<string, unknown>>;
+  surveys: Map<string, { id: string; state: 'open' | 'submitted' | 'signed_off'; siteId: string; deleted: boolean; assigned: boolean }>;
+  /** Station and walk id → survey id; level id → site id; room id → level id. */
+  stations: Map<string, string>;
+  walks: Map<string, string>;
+  levels: Map<string, string>;
+  rooms: Map<string, string>;
+  instruments: Set<string>;
+  /** The current rows of the batch's records, per capture table. */
+  records: { entity: CaptureEntity; rows: DbRow[] }[];
+  /**
+   * Change sequences reserved for the batch (first … first + count − 1; count 0 when every mutation
+   * was answered before): the organisation's counter is locked until the transaction ends, so what the
+   * batch does not use is given back at its end (`writeBatch`'s `counter`).
+   */
+  seqs: { first: number; count: number };
+}
 
 export function createSyncRepository(db: Db) {
   return {
@@ -127,16 +189,105 @@ export function createSyncRepository(db: Db) {
 
     // ------------------------------------------------------------------------------ processed mutations
 
-    /** Stored answers of the mutation ids this organisation has seen before. */
-    async seenMutations(tx: Tx, organisationId: string, mutationIds: string[]): Promise<Map<string, Record<string, unknown>>> {
-      const seen = new Map<string, Record<string, unknown>>();
-      if (mutationIds.length === 0) return seen;
-      const rows = await tx
-        .select({ mutationId: syncMutations.mutationId, result: syncMutations.result })
-        .from(syncMutations)
-        .where(and(eq(syncMutations.organisationId, organisationId), sql`${syncMutations.mutationId} = ANY(${sql.param(mutationIds)}::uuid[])`));
-      for (const row of rows) if (row.result) seen.set(row.mutationId, row.result);
-      return seen;
+    /**
+     * Everything a batch is decided against, in ONE statement: first the advisory locks on its record
+     * ids, sorted, as `lockRecordIds` takes them; then the stored answers of its mutation ids; then (the
+     * locks taken, so in the same order as every other writer) the reservation of one change sequence per
+     * mutation not answered before — at most what the batch can use, the rest given back at its end; its
+     * surveys with whether the user is assigned; the stations,
+     * walks, levels, rooms and instruments it names that exist in this organisation; and the current rows
+     * of its records, in any organisation (the caller tells own rows from foreign ids), locked FOR UPDATE.
+     * Ids may be a superset of the batch's (they are asked before the batch has been checked); the caller
+     * looks up only what it needs.
+     *
+     * The reads share the statement's snapshot, taken before the locks were granted: a push that held
+     * them and committed while this one waited is not seen here, except through FOR UPDATE (which reads
+     * the latest version of an existing row). Whatever else it wrote this push then collides with on a
+     * key when it writes (the record it created, the mutation ids it stored), and the rerun (careful mode,
+     * a new transaction) sees it all. A plain retry, the common case, waits for nothing.
+     */
+    async batchContext(
+      tx: Tx,
+      organisationId: string,
+      userId: string,
+      want: {
+        recordIds: string[];
+        mutationIds: string[];
+        /** Change sequences to reserve at most: one per mutation sent, less those already answered. */
+        mutationCount: number;
+        surveyIds: string[];
+        records: Map<CaptureEntity, string[]>;
+        stations: string[];
+        walks: string[];
+        levels: string[];
+        rooms: string[];
+        instruments: string[];
+      },
+    ): Promise<BatchContext> {
+      const org = sql`${organisationId}::uuid`;
+      const recordParts = [...want.records].map(
+        ([entity, ids]) => sql`
+        UNION ALL
+        SELECT ${entity}, x.id, NULL, x.row FROM unnest(${uuids(ids)}) AS k(id)
+          CROSS JOIN LATERAL (SELECT t.id, to_jsonb(t.*) AS row FROM ${sql.raw(q(entity))} t WHERE t.id = k.id FOR UPDATE) x`,
+      );
+      const result = await tx.execute<{ kind: string; id: string; parent: string | null; data: unknown }>(sql`
+        WITH locks AS MATERIALIZED (
+          SELECT count(pg_advisory_xact_lock(k)) AS n FROM (
+            SELECT DISTINCT hashtextextended(id::text, 7531) AS k FROM unnest(${uuids(want.recordIds)}) AS id ORDER BY 1) keys
+        ), seen AS MATERIALIZED (
+          SELECT s.mutation_id, s.result FROM locks, unnest(${uuids(want.mutationIds)}) AS k(id)
+          CROSS JOIN LATERAL (SELECT mutation_id, result FROM sync_mutations WHERE organisation_id = ${org} AND mutation_id = k.id AND result IS NOT NULL LIMIT 1) s
+        ), seq AS (
+          UPDATE organisations SET change_seq = change_seq + (${want.mutationCount}::int - (SELECT count(*) FROM seen))
+          WHERE id = ${org} AND (SELECT n FROM locks) >= 0 AND ${want.mutationCount}::int > (SELECT count(*) FROM seen)
+          RETURNING change_seq, ${want.mutationCount}::int - (SELECT count(*) FROM seen) AS reserved
+        )
+        SELECT 'seen' AS kind, mutation_id AS id, NULL::uuid AS parent, result AS data FROM seen
+        UNION ALL
+        SELECT 'seq', NULL, NULL, jsonb_build_object('last', change_seq, 'count', reserved) FROM seq
+        UNION ALL
+        SELECT 'survey', s.id, s.site_id,
+               jsonb_build_object('state', s.state, 'deleted', s.deleted, 'assigned',
+                 EXISTS (SELECT 1 FROM survey_assignments a WHERE a.survey_id = s.id AND a.organisation_id = s.organisation_id AND a.user_id = ${userId}::uuid AND NOT a.deleted))
+          FROM surveys s WHERE s.organisation_id = ${org} AND s.id = ANY(${uuids(want.surveyIds)})
+        UNION ALL
+        SELECT 'station', x.id, x.survey_id, NULL FROM unnest(${uuids(want.stations)}) AS k(id)
+          CROSS JOIN LATERAL (SELECT id, survey_id FROM stations WHERE id = k.id AND organisation_id = ${org} LIMIT 1) x
+        UNION ALL
+        SELECT 'walk', x.id, x.survey_id, NULL FROM unnest(${uuids(want.walks)}) AS k(id)
+          CROSS JOIN LATERAL (SELECT id, survey_id FROM walks WHERE id = k.id AND organisation_id = ${org} LIMIT 1) x
+        UNION ALL SELECT 'level', id, site_id, NULL FROM levels WHERE organisation_id = ${org} AND id = ANY(${uuids(want.levels)})
+        UNION ALL SELECT 'room', id, level_id, NULL FROM rooms WHERE organisation_id = ${org} AND id = ANY(${uuids(want.rooms)})
+        UNION ALL SELECT 'instrument', id, NULL, NULL FROM instruments WHERE organisation_id = ${org} AND id = ANY(${uuids(want.instruments)})
+        ${sql.join(recordParts, sql``)}`);
+      const out: BatchContext = { seqs: { first: 0, count: 0 }, seen: new Map(), surveys: new Map(), stations: new Map(), walks: new Map(), levels: new Map(), rooms: new Map(), instruments: new Set(), records: [] };
+      const byEntity = new Map<CaptureEntity, DbRow[]>();
+      for (const r of result.rows) {
+        if (r.kind === 'seq') {
+          const d = r.data as { last: number; count: number };
+          out.seqs = { first: Number(d.last) - Number(d.count) + 1, count: Number(d.count) };
+        } else if (r.kind === 'seen') {
+          // Answers are stored without their mutation id (older rows have it: the same value).
+          if (r.data) out.seen.set(r.id, { mutationId: r.id, ...(r.data as Record<string, unknown>) });
+        } else if (r.kind === 'survey') {
+          const d = r.data as { state: 'open' | 'submitted' | 'signed_off'; deleted: boolean; assigned: boolean };
+          out.surveys.set(r.id, { id: r.id, siteId: r.parent!, state: d.state, deleted: d.deleted, assigned: d.assigned });
+        } else if (r.kind === 'station') out.stations.set(r.id, r.parent!);
+        else if (r.kind === 'walk') out.walks.set(r.id, r.parent!);
+        else if (r.kind === 'level') out.levels.set(r.id, r.parent!);
+        else if (r.kind === 'room') out.rooms.set(r.id, r.parent!);
+        else if (r.kind === 'instrument') out.instruments.add(r.id);
+        else {
+          const entity = r.kind as CaptureEntity;
+          const row = mapRow(entity, r.data as Record<string, unknown>);
+          const list = byEntity.get(entity);
+          if (list) list.push(row);
+          else byEntity.set(entity, [row]);
+        }
+      }
+      out.records = [...byEntity].map(([entity, rows]) => ({ entity, rows }));
+      return out;
     },
 
     // ------------------------------------------------------------------------------- permissions, refs
@@ -191,82 +342,79 @@ export function createSyncRepository(db: Db) {
     },
 
     /**
-     * Every reference a batch names, in one round trip: which of the stations, walks, levels, rooms and
-     * instruments exist in this organisation, with what the checks need (a station's or walk's survey, a
-     * level's site, a room's level).
+     * A push batch's writes in ONE statement (writable CTEs; foreign keys are checked at its end, so a
+     * reading may name a station inserted beside it): new records in a plain INSERT and changed ones in
+     * an upsert per table, the sequence-only touches, then the change_log rows, the stored answers, the
+     * audit rows and the repeat-recomputation queue entries. `records` is empty when the records were
+     * written already (careful mode, one savepoint each) and there is nothing to touch.
+     *
+     * The answers are a plain INSERT (no ON CONFLICT: its speculative insertion costs a tenth of a push):
+     * the batch's mutation ids were looked up after its record locks, so a duplicate can only come from
+     * another batch carrying the same mutation id for other records; its unique violation reruns the
+     * batch (careful mode), which then finds that mutation answered and replays the stored answer.
      */
-    async references(tx: Tx, organisationId: string, want: { stations: string[]; walks: string[]; levels: string[]; rooms: string[]; instruments: string[] }) {
-      const ids = (list: string[]) => sql`${sql.param(list)}::uuid[]`;
-      const result = await tx.execute<{ kind: string; id: string; parent: string | null }>(sql`
-        SELECT 'station' AS kind, id, survey_id AS parent FROM stations WHERE organisation_id = ${organisationId}::uuid AND id = ANY(${ids(want.stations)})
-        UNION ALL SELECT 'walk', id, survey_id FROM walks WHERE organisation_id = ${organisationId}::uuid AND id = ANY(${ids(want.walks)})
-        UNION ALL SELECT 'level', id, site_id FROM levels WHERE organisation_id = ${organisationId}::uuid AND id = ANY(${ids(want.levels)})
-        UNION ALL SELECT 'room', id, level_id FROM rooms WHERE organisation_id = ${organisationId}::uuid AND id = ANY(${ids(want.rooms)})
-        UNION ALL SELECT 'instrument', id, NULL FROM instruments WHERE organisation_id = ${organisationId}::uuid AND id = ANY(${ids(want.instruments)})`);
-      const out = { stations: new Map<string, string>(), walks: new Map<string, string>(), levels: new Map<string, string>(), rooms: new Map<string, string>(), instruments: new Set<string>() };
-      for (const r of result.rows) {
-        if (r.kind === 'station') out.stations.set(r.id, r.parent!);
-        else if (r.kind === 'walk') out.walks.set(r.id, r.parent!);
-        else if (r.kind === 'level') out.levels.set(r.id, r.parent!);
-        else if (r.kind === 'room') out.rooms.set(r.id, r.parent!);
-        else out.instruments.add(r.id);
-      }
-      return out;
-    },
-
-    /** The surveys of a batch with, for each, whether the user is assigned to it — one round trip. */
-    async surveysWithAssignment(tx: Tx, organisationId: string, userId: string, surveyIds: string[]) {
-      const result = await tx.execute<{ id: string; state: 'open' | 'submitted' | 'signed_off'; site_id: string; deleted: boolean; assigned: boolean }>(sql`
-        SELECT s.id, s.state, s.site_id, s.deleted,
-               EXISTS (SELECT 1 FROM survey_assignments a WHERE a.survey_id = s.id AND a.organisation_id = s.organisation_id AND a.user_id = ${userId}::uuid AND NOT a.deleted) AS assigned
-        FROM surveys s WHERE s.organisation_id = ${organisationId}::uuid AND s.id = ANY(${sql.param(surveyIds)}::uuid[])`);
-      return result.rows;
-    },
-
-    /**
-     * The end of a push in one statement (writable CTEs): the change_log rows, the stored answers, the
-     * audit rows and the repeat-recomputation queue entries.
-     */
-    async finishBatch(
+    async writeBatch(
       tx: Tx,
       input: {
         organisationId: string;
         deviceId: string;
         userId: string;
         requestId: string | null;
+        records: { entity: CaptureEntity; inserts: Record<string, unknown>[]; upserts: Record<string, unknown>[]; touches: { id: string; changeSeq: number }[] }[];
         changes: { seq: number; entity: SyncedEntity; entityId: string; revision: number; deleted: boolean }[];
         mutations: { mutationId: string; entity: string; recordId: string; queuedAt: string | null; result: Record<string, unknown> }[];
         audits: { action: string; entity: string; entityId: string; before: unknown; after: unknown }[];
         dirtySurveyIds: string[];
+        /** The organisation's counter as the batch leaves it (the reserved sequences it did not use given back), or null to leave it. */
+        counter: number | null;
       },
     ): Promise<void> {
       const org = sql`${input.organisationId}::uuid`;
-      const p = <T>(values: T[], cast: string) => sql`${sql.param(values)}::${sql.raw(cast)}`;
-      const json = (v: unknown) => (v === null || v === undefined ? null : JSON.stringify(v));
-      const { changes: c, mutations: m, audits: a } = input;
+      // One JSON text per table (a JSON null reads as SQL NULL in json_to_recordset).
+      const rows = (list: object[]) => sql`${JSON.stringify(list)}::json`;
+      const c = input.changes.map((x) => ({ s: x.seq, e: x.entity, i: x.entityId, r: x.revision, d: x.deleted }));
+      const m = input.mutations.map((x) => ({ mi: x.mutationId, e: x.entity, r: x.recordId, qa: x.queuedAt, res: x.result }));
+      const a = input.audits.map((x) => ({ ac: x.action, e: x.entity, i: x.entityId, b: x.before ?? null, af: x.after ?? null }));
+      const ctes: SQL[] = [];
+      input.records.forEach(({ entity, inserts, upserts, touches }, n) => {
+        const table = sql.raw(q(entity));
+        if (inserts.length > 0) {
+          const u = recordset(WRITABLE[entity], inserts);
+          ctes.push(sql`${sql.raw(`new_${n}`)} AS (INSERT INTO ${table} (${sql.raw(u.names)}) SELECT ${sql.raw(u.select)} FROM ${u.from})`);
+        }
+        if (upserts.length > 0) ctes.push(sql`${sql.raw(`changed_${n}`)} AS (${upsertStatement(entity, upserts)})`);
+        if (touches.length > 0) {
+          ctes.push(sql`${sql.raw(`touched_${n}`)} AS (
+            UPDATE ${table} t SET change_seq = u.seq, updated_at = now()
+            FROM json_to_recordset(${rows(touches.map((x) => ({ id: x.id, seq: x.changeSeq })))}) AS u(id uuid, seq bigint)
+            WHERE t.id = u.id)`);
+        }
+      });
+      if (input.counter !== null) ctes.push(sql`counter AS (UPDATE organisations SET change_seq = ${input.counter} WHERE id = ${org})`);
       await tx.execute(sql`
-        WITH log AS (
+        WITH ${sql.join([...ctes, sql``], sql`, `)}log AS (
           INSERT INTO change_log (organisation_id, seq, entity, entity_id, revision, deleted)
-          SELECT ${org}, s, e, i, r, d FROM unnest(${p(c.map((x) => x.seq), 'bigint[]')}, ${p(c.map((x) => x.entity), 'text[]')}, ${p(c.map((x) => x.entityId), 'uuid[]')},
-                                                   ${p(c.map((x) => x.revision), 'int[]')}, ${p(c.map((x) => x.deleted), 'boolean[]')}) AS u(s, e, i, r, d)
+          SELECT ${org}, s, e, i, r, d FROM json_to_recordset(${rows(c)}) AS u(s bigint, e text, i uuid, r int, d boolean)
         ), answers AS (
           INSERT INTO sync_mutations (organisation_id, mutation_id, device_id, user_id, entity, record_id, queued_at, result)
           SELECT ${org}, mi, ${input.deviceId}, ${input.userId}::uuid, e, r, qa, res
-          FROM unnest(${p(m.map((x) => x.mutationId), 'uuid[]')}, ${p(m.map((x) => x.entity), 'text[]')}, ${p(m.map((x) => x.recordId), 'uuid[]')},
-                      ${p(m.map((x) => x.queuedAt), 'timestamptz[]')}, ${p(m.map((x) => JSON.stringify(x.result)), 'jsonb[]')}) AS u(mi, e, r, qa, res)
-          ON CONFLICT (organisation_id, mutation_id) DO NOTHING
+          FROM json_to_recordset(${rows(m)}) AS u(mi uuid, e text, r uuid, qa timestamptz, res jsonb)
         ), audit AS (
           INSERT INTO audit_log (organisation_id, actor_user_id, action, entity, entity_id, before, after, request_id)
           SELECT ${org}, ${input.userId}::uuid, ac, e, i, b, af, ${input.requestId}
-          FROM unnest(${p(a.map((x) => x.action), 'text[]')}, ${p(a.map((x) => x.entity), 'text[]')}, ${p(a.map((x) => x.entityId), 'text[]')},
-                      ${p(a.map((x) => json(x.before)), 'jsonb[]')}, ${p(a.map((x) => json(x.after)), 'jsonb[]')}) AS u(ac, e, i, b, af)
+          FROM json_to_recordset(${rows(a)}) AS u(ac text, e text, i text, b jsonb, af jsonb)
         )
-        INSERT INTO repeat_recompute_queue (survey_id, organisation_id)
-        SELECT s, ${org} FROM unnest(${p(input.dirtySurveyIds, 'uuid[]')}) AS s
-        ON CONFLICT (survey_id) DO UPDATE SET requested_at = now()`);
+        INSERT INTO repeat_recompute_queue (survey_id, organisation_id, requested_at)
+        SELECT s, ${org}, clock_timestamp() FROM unnest(${uuids(input.dirtySurveyIds)}) AS s
+        ON CONFLICT (survey_id) DO UPDATE SET requested_at = clock_timestamp()`);
     },
 
     // ------------------------------------------------------------------------------------ the writes
+
+    /** Sets the organisation's counter back to `changeSeq`: only for sequences this transaction reserved and did not use. */
+    async setChangeSeq(tx: Tx, organisationId: string, changeSeq: number): Promise<void> {
+      await tx.execute(sql`UPDATE organisations SET change_seq = ${changeSeq} WHERE id = ${organisationId}::uuid`);
+    },
 
     /** Counter bump for `count` sequences (the organisation row lock: see server/db/audit.ts). */
     reserveChangeSeqs: (tx: Tx, organisationId: string, count: number) => reserveChangeSeqs(tx, organisationId, count),
@@ -274,44 +422,12 @@ export function createSyncRepository(db: Db) {
     /**
      * Inserts new records and overwrites existing ones of one entity in one statement. `rows` carry
      * every writable column (wire values; the server has set revision, changeSeq and the object keys).
-     * The WHERE keeps a row of another organisation untouched even if a check upstream were missed.
      * Returns the ids written.
      */
     async upsertRecords(tx: Tx, entity: CaptureEntity, rows: Record<string, unknown>[]): Promise<string[]> {
       if (rows.length === 0) return [];
-      const table = q(entity);
-      const columns = WRITABLE[entity];
-      const names = columns.map((c) => q(c.name)).join(', ');
-      const updates = columns
-        .filter((c) => c.key !== 'id' && c.key !== 'organisationId')
-        .map((c) => `${q(c.name)} = EXCLUDED.${q(c.name)}`)
-        .join(', ');
-      const result = await tx.execute<{ id: string }>(sql`
-        INSERT INTO ${sql.raw(table)} (${sql.raw(names)}, updated_at)
-        SELECT u.*, now() FROM unnest(${sql.join(toArrays(columns, rows), sql`, `)}) AS u(${sql.raw(names)})
-        ON CONFLICT (id) DO UPDATE SET ${sql.raw(updates)}, updated_at = now()
-        WHERE ${sql.raw(table)}.organisation_id = EXCLUDED.organisation_id
-        RETURNING id`);
+      const result = await tx.execute<{ id: string }>(sql`${upsertStatement(entity, rows)} RETURNING id`);
       return result.rows.map((r) => r.id);
-    },
-
-    /** Inserts records known to be new (their ids are locked and were not found): a plain bulk INSERT. */
-    async insertRecords(tx: Tx, entity: CaptureEntity, rows: Record<string, unknown>[]): Promise<void> {
-      if (rows.length === 0) return;
-      const columns = WRITABLE[entity];
-      const names = columns.map((c) => q(c.name)).join(', ');
-      await tx.execute(sql`
-        INSERT INTO ${sql.raw(q(entity))} (${sql.raw(names)})
-        SELECT * FROM unnest(${sql.join(toArrays(columns, rows), sql`, `)})`);
-    },
-
-    /** Gives records a new change sequence without a new revision: their server-side state changed. */
-    async touchRecords(tx: Tx, entity: CaptureEntity, items: { id: string; changeSeq: number }[]): Promise<void> {
-      if (items.length === 0) return;
-      await tx.execute(sql`
-        UPDATE ${sql.raw(q(entity))} t SET change_seq = u.seq, updated_at = now()
-        FROM unnest(${sql.param(items.map((i) => i.id))}::uuid[], ${sql.param(items.map((i) => i.changeSeq))}::bigint[]) AS u(id, seq)
-        WHERE t.id = u.id`);
     },
 
     async insertChangeLog(tx: Tx, organisationId: string, entries: { seq: number; entity: SyncedEntity; entityId: string; revision: number; deleted: boolean }[]): Promise<void> {
@@ -352,9 +468,9 @@ export function createSyncRepository(db: Db) {
     async markRepeatsDirty(tx: Tx, organisationId: string, surveyIds: string[]): Promise<void> {
       if (surveyIds.length === 0) return;
       await tx.execute(sql`
-        INSERT INTO repeat_recompute_queue (survey_id, organisation_id)
-        SELECT s, ${organisationId}::uuid FROM unnest(${sql.param(surveyIds)}::uuid[]) AS s
-        ON CONFLICT (survey_id) DO UPDATE SET requested_at = now()`);
+        INSERT INTO repeat_recompute_queue (survey_id, organisation_id, requested_at)
+        SELECT s, ${organisationId}::uuid, clock_timestamp() FROM unnest(${sql.param(surveyIds)}::uuid[]) AS s
+        ON CONFLICT (survey_id) DO UPDATE SET requested_at = clock_timestamp()`);
     },
 
     // ------------------------------------------------------------------------------------------ pull
@@ -510,11 +626,24 @@ export function createSyncRepository(db: Db) {
       return out;
     },
 
-    /** Takes the survey's repeat-recomputation lock and its queue entry (true when one was waiting). */
-    async beginRepeatRecompute(tx: Tx, surveyId: string): Promise<boolean> {
+    /**
+     * Takes the survey's repeat-recomputation lock (recomputations of one survey run one at a time) and
+     * reads its queue entry's stamp, or null when it is not queued. The entry itself is left alone until
+     * `finishRepeatRecompute`, so a push re-queuing the survey meanwhile never waits for a recomputation
+     * (it updates the entry and goes on), and a crash mid-recomputation leaves the survey queued.
+     */
+    async beginRepeatRecompute(tx: Tx, surveyId: string): Promise<string | null> {
       await tx.execute(sql`SELECT pg_advisory_xact_lock(hashtextextended(${surveyId}::text, 4242))`);
-      const removed = await tx.delete(repeatRecomputeQueue).where(eq(repeatRecomputeQueue.surveyId, surveyId)).returning({ id: repeatRecomputeQueue.surveyId });
-      return removed.length > 0;
+      const result = await tx.execute<{ stamp: string }>(sql`SELECT requested_at::text AS stamp FROM repeat_recompute_queue WHERE survey_id = ${surveyId}::uuid`);
+      return result.rows[0]?.stamp ?? null;
+    },
+
+    /**
+     * Removes the queue entry read by `beginRepeatRecompute`, unless a push has stamped it again since
+     * (its readings may be missing from what was computed: the survey stays queued for another run).
+     */
+    async finishRepeatRecompute(tx: Tx, surveyId: string, stamp: string): Promise<void> {
+      await tx.execute(sql`DELETE FROM repeat_recompute_queue WHERE survey_id = ${surveyId}::uuid AND requested_at = ${stamp}::timestamptz`);
     },
 
     async isRepeatDirty(tx: DbOrTx, surveyId: string): Promise<boolean> {

@@ -3,14 +3,18 @@
  * shapes; this is the rule book.
  *
  * PUSH — one transaction per batch, in these steps:
- *  1. Each mutation is parsed on its own (MutationSchema, then its entity's capture schema; the payload's
- *     id, surveyId and organisationId must match the mutation and the URL). A bad one is `rejected` with
- *     the zod issues; the rest of the batch goes on.
- *  2. The batch's record ids are advisory-locked (sorted, per transaction), then its mutation ids are
- *     looked up in sync_mutations: ids seen before are answered with the result stored the first time and
- *     not applied again. A retry racing the first attempt locks the same record ids, so it waits until the
- *     first commits and then finds its mutations answered. The answers are stored at the end of the
- *     transaction, one multi-row INSERT.
+ *  1. Each mutation is parsed on its own (the MutationSchema envelope, then its entity's capture schema;
+ *     the payload's id, surveyId and organisationId must match the mutation and the URL). A bad one is
+ *     `rejected` with the zod issues; the rest of the batch goes on. This runs while the database works
+ *     on step 2, which needs only the ids as sent.
+ *  2. ONE statement (repository `batchContext`) advisory-locks the batch's record ids (sorted, per
+ *     transaction) and reads everything the batch is decided against: the stored answers of its
+ *     mutation ids in sync_mutations (ids seen before are answered with the result stored the first time
+ *     and not applied again), its surveys and assignments, its references and its records' rows. A
+ *     retry racing the first attempt locks the same record ids, so it waits until the first commits;
+ *     its reads being older than that commit, it then collides with the first attempt's keys (records,
+ *     stored answers) when it writes, and its rerun (careful mode, below) finds its mutations answered.
+ *     The answers are stored at the end of the transaction, in the one write statement.
  *  3. Permission per mutation: the survey must exist in this organisation (another organisation's survey
  *     looks exactly like a missing one: SURVEY_NOT_FOUND), be `open` (SURVEY_NOT_OPEN otherwise, with
  *     the state), and the user must be assigned to it (NOT_ASSIGNED) — admins may write into any open
@@ -22,8 +26,8 @@
  *     device whose station is still in a later batch simply retries (out-of-order batches are refused,
  *     not reordered). Levels, rooms and instruments must be of this organisation and fit the survey's
  *     site (REFERENCE_UNKNOWN).
- *  5. The records' rows are read FOR UPDATE (their ids are locked since step 2), then each
- *     mutation is decided in batch order against the record as the batch has left it:
+ *  5. The records' rows are read FOR UPDATE (in step 2), then each mutation is decided in batch order
+ *     against the record as the batch has left it:
  *     - no record: created, revision 1;
  *     - baseRevision = the server's revision: applied, revision + 1 (a tombstone is a write like any
  *       other);
@@ -34,19 +38,24 @@
  *       or delete_vs_edit for a deletion reaching an edited record): the server row stays, the incoming
  *       version goes to sync_conflicts, and the record gets a new change sequence (not a new revision)
  *       so every device pulls it again with `conflicted: true`. Records are never merged field by field.
- *  6. The writes: one reservation of change sequences for the whole batch (late, so the organisation's
- *     counter lock is held briefly), then per entity one `INSERT … SELECT FROM unnest(…)` for the new
- *     records and one `… ON CONFLICT (id) DO UPDATE` for the changed ones, then ONE statement (writable
- *     CTEs) for the change_log rows, the audit rows, the stored answers and the repeat queue — about ten
- *     round trips per batch whatever its size. If a bulk statement fails on a database constraint the
- *     schemas do not express, the whole transaction runs again in careful mode, each record in its own
- *     savepoint: the failing record's mutations are rejected (CONSTRAINT_FAILED), the rest apply.
+ *  6. The writes. The change sequences were reserved in step 2 (after the record locks, one per mutation
+ *     not answered before: the organisation's counter row stays locked to the end of the transaction,
+ *     so what the batch does not use is given back in the write — no gap, and no extra round trip; the
+ *     lock is held from the context read on, a few milliseconds longer than a reservation just before
+ *     the write would hold it). Then ONE statement (writable CTEs, rows sent as JSON) for the new
+ *     records (a plain INSERT per entity), the changed ones (`… ON CONFLICT (id) DO UPDATE`), the
+ *     sequence-only touches, the change_log rows, the audit rows, the stored answers and the repeat
+ *     queue — BEGIN, three statements and COMMIT per batch whatever its size. If the write fails on a
+ *     database constraint the schemas do not express (or on a key a racing push took, step 2), the whole
+ *     transaction runs again in careful mode, each record in its own savepoint: the failing record's
+ *     mutations are rejected (CONSTRAINT_FAILED), the rest apply.
  *  7. Audit: every update, tombstone, revival and conflict has its own audit_log row with before and
  *     after; creations are listed (entity, id, revision) in one `sync_push` row per batch with the device,
  *     because a created record's "after" is the row itself and writing 500 copies of it would double the
  *     cost of a push for no information (the sync_mutations rows name the user and device of each).
  *  8. Readings or stations changed → the survey joins repeat_recompute_queue in the same transaction,
- *     and repeat groups are recomputed right after the commit, debounced per survey (repeats.service.ts).
+ *     and repeat groups are recomputed after the commit, debounced per survey, in the background
+ *     (repeats.service.ts).
  *
  * Server-assigned, never taken from the device: revision, changeSeq, timestamps, and the attachment
  * object keys (derived from the record and the file's SHA-256; shared/sync/attachment-key.ts). Device
@@ -86,7 +95,7 @@ import type { Tx } from '../../db/client';
 import type { SyncedEntity } from '../../db/schema/synced-tables';
 import { AppError, notFound } from '../../lib/errors';
 import type { Logger } from '../../lib/logger';
-import { constraintOf, type DbRow, type SyncRepository } from './sync.repository';
+import { constraintOf, type BatchContext, type DbRow, type SyncRepository } from './sync.repository';
 
 export interface SyncActor {
   organisationId: string;
@@ -194,6 +203,57 @@ interface ConflictDraft {
   id?: string;
 }
 
+/** The mutation envelope; the payload is checked just after by its entity's capture schema (an object check here, not a second walk over its fields). */
+const EnvelopeSchema = MutationSchema.extend({
+  payload: z.custom<Record<string, unknown>>((v) => typeof v === 'object' && v !== null && !Array.isArray(v), { message: 'Invalid input: expected the record (an object).' }),
+});
+
+/** Text the database reads as a UUID (looser than the schemas' check; used only to look ids up early). */
+const UUID_TEXT = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+const REFERENCE_KEYS = { stations: ['stationId'], walks: ['walkId'], levels: ['levelId'], rooms: ['roomId'], instruments: ['instrumentId', 'analyserId', 'antennaId'] } as const;
+
+/**
+ * The ids a batch names, taken from the body as sent (before each mutation is checked): what to lock
+ * and look up. A superset of what the checked batch needs — a malformed mutation's ids are looked up
+ * for nothing — and every id the checked batch uses is among them, because checking keeps them as sent.
+ */
+function idHints(body: PushRequest) {
+  const out = {
+    recordIds: [] as string[],
+    records: new Map<CaptureEntity, string[]>(),
+    mutationIds: [] as string[],
+    surveyIds: [] as string[],
+    stations: [] as string[],
+    walks: [] as string[],
+    levels: [] as string[],
+    rooms: [] as string[],
+    instruments: [] as string[],
+  };
+  const isId = (v: unknown): v is string => typeof v === 'string' && UUID_TEXT.test(v);
+  for (const m of body.mutations) {
+    if (isId(m.mutationId)) out.mutationIds.push(m.mutationId);
+    if (isId(m.surveyId)) out.surveyIds.push(m.surveyId);
+    if (isId(m.recordId)) {
+      out.recordIds.push(m.recordId);
+      if (typeof m.entity === 'string' && Object.hasOwn(CAPTURE_ENTITIES, m.entity)) {
+        const entity = m.entity as CaptureEntity;
+        const list = out.records.get(entity);
+        if (list) list.push(m.recordId);
+        else out.records.set(entity, [m.recordId]);
+      }
+    }
+    const p = m.payload;
+    if (typeof p !== 'object' || p === null) continue;
+    for (const [kind, keys] of Object.entries(REFERENCE_KEYS) as [keyof typeof REFERENCE_KEYS, readonly string[]][]) {
+      for (const key of keys) {
+        const v = (p as Record<string, unknown>)[key];
+        if (isId(v)) out[kind].push(v);
+      }
+    }
+  }
+  return out;
+}
+
 export interface SyncServiceDeps {
   repo: SyncRepository;
   logger: Logger;
@@ -204,19 +264,16 @@ export interface SyncServiceDeps {
 export function createSyncService(deps: SyncServiceDeps) {
   const { repo } = deps;
 
-  async function push(actor: SyncActor, body: PushRequest): Promise<PushResponse> {
-    const { organisationId } = actor;
-    const results: (PushResult | undefined)[] = new Array(body.mutations.length);
+  /** Step 1: each mutation parsed on its own; the valid ones become candidates, the others are rejected. */
+  function parseBatch(organisationId: string, body: PushRequest, results: (PushResult | undefined)[]): Candidate[] {
     const candidates: Candidate[] = [];
     const seenInBatch = new Set<string>();
-
-    // 1. Parse each mutation on its own.
     body.mutations.forEach((raw, index) => {
       const mutationId = raw.mutationId;
       const fail = (r: Rejection) => (results[index] = { mutationId, status: 'rejected', error: r });
       if (seenInBatch.has(mutationId)) return fail(reject('VALIDATION_FAILED', 'This mutation id appears twice in the batch.'));
       seenInBatch.add(mutationId);
-      const envelope = MutationSchema.safeParse(raw);
+      const envelope = EnvelopeSchema.safeParse(raw);
       if (!envelope.success) return fail(reject('VALIDATION_FAILED', 'The mutation is not valid.', { issues: issuesOf(envelope.error, '') }));
       const m = envelope.data;
       const parsed = CAPTURE_ENTITIES[m.entity].safeParse(m.payload);
@@ -227,14 +284,35 @@ export function createSyncService(deps: SyncServiceDeps) {
       if (record.organisationId !== organisationId) return fail(reject('PAYLOAD_MISMATCH', 'payload.organisationId is not this organisation.'));
       candidates.push({ index, mutation: m, record });
     });
+    return candidates;
+  }
+
+  async function push(actor: SyncActor, body: PushRequest): Promise<PushResponse> {
+    const { organisationId } = actor;
+    const results: (PushResult | undefined)[] = new Array(body.mutations.length);
+    let candidates: Candidate[] | null = null;
+    const hints = idHints(body);
 
     const dirtySurveys = new Set<string>();
     const attempt = (careful: boolean) =>
       repo.transaction(async (tx) => {
         // A transaction run again (deadlock, careful mode) starts from the parsed batch.
         dirtySurveys.clear();
-        for (const c of candidates) results[c.index] = undefined;
-        await applyBatch(tx, actor, body.deviceId, candidates, results, dirtySurveys, careful);
+        for (const c of candidates ?? []) results[c.index] = undefined;
+        // 2. One statement locks the record ids (advisory, sorted, per transaction) and then reads the
+        // stored answers of the mutation ids, the surveys, the references and the records' rows (FOR
+        // UPDATE), with the ids as sent: it goes out now and the database works on it while this process
+        // checks the batch (step 1). A retry of the same batch racing this one locks the same ids, so it
+        // waits until this transaction commits (and, its reads being older than that commit, collides
+        // with this one's keys and is rerun, finding every mutation answered: see batchContext).
+        const context = repo.batchContext(tx, organisationId, actor.userId, { ...hints, mutationCount: body.mutations.length });
+        let ctx: BatchContext;
+        try {
+          candidates ??= parseBatch(organisationId, body, results);
+        } finally {
+          ctx = await context;
+        }
+        await applyBatch(tx, actor, body.deviceId, candidates, results, dirtySurveys, careful, ctx);
       });
     try {
       await attempt(false);
@@ -248,40 +326,47 @@ export function createSyncService(deps: SyncServiceDeps) {
     return { results: results.map((r, i) => r ?? { mutationId: body.mutations[i]!.mutationId, status: 'rejected', error: reject('VALIDATION_FAILED', 'Not processed.') }) };
   }
 
-  async function applyBatch(tx: Tx, actor: SyncActor, deviceId: string, candidates: Candidate[], results: (PushResult | undefined)[], dirtySurveys: Set<string>, careful: boolean) {
-    const { organisationId, userId, role } = actor;
+  async function applyBatch(
+    tx: Tx,
+    actor: SyncActor,
+    deviceId: string,
+    candidates: Candidate[],
+    results: (PushResult | undefined)[],
+    dirtySurveys: Set<string>,
+    careful: boolean,
+    ctx: BatchContext,
+  ) {
+    const { organisationId, role } = actor;
 
-    // 2. Lock the records, then look the mutation ids up. A retry of the same batch racing this one
-    // locks the same record ids, so it waits here until this transaction commits and then finds every
-    // mutation answered.
-    await repo.lockRecordIds(tx, candidates.map((c) => c.mutation.recordId));
-    const seen = await repo.seenMutations(tx, organisationId, candidates.map((c) => c.mutation.mutationId));
+    // 2. Mutation ids seen before are answered with their stored result.
     for (const c of candidates) {
-      const stored = seen.get(c.mutation.mutationId);
+      const stored = ctx.seen.get(c.mutation.mutationId);
       if (stored) results[c.index] = stored as PushResult;
     }
-    const live = candidates.filter((c) => !seen.has(c.mutation.mutationId));
-    if (live.length === 0) return;
+    const live = candidates.filter((c) => !ctx.seen.has(c.mutation.mutationId));
+    // Sequences were reserved with the context (at most one per mutation not answered before); what the
+    // batch leaves unused is given back when it writes, so the counter shows no gap.
+    const reserved = ctx.seqs;
+    const giveBack = (used: number) => (reserved.count > used ? reserved.first + used - 1 : null);
+    if (live.length === 0) {
+      const counter = giveBack(0);
+      if (counter !== null) await repo.setChangeSeq(tx, organisationId, counter);
+      return;
+    }
     const rejectLive = (c: Candidate, r: Rejection) => (results[c.index] = { mutationId: c.mutation.mutationId, status: 'rejected', error: r });
 
-    // 3. Surveys and assignments.
-    const surveyIds = [...new Set(live.map((c) => c.mutation.surveyId))];
-    const surveyList = await repo.surveysWithAssignment(tx, organisationId, userId, surveyIds);
-    const surveyRows = new Map(surveyList.map((s) => [s.id, { ...s, siteId: s.site_id }]));
-    const assigned = new Set(role === 'admin' ? surveyIds : surveyList.filter((s) => s.assigned).map((s) => s.id));
+    // 3. Surveys and assignments (admins need none).
+    const surveyRows = ctx.surveys;
+    const isAssigned = (surveyId: string) => role === 'admin' || surveyRows.get(surveyId)?.assigned === true;
 
-    // 5a. Read the records (locked above).
-    const byEntity = new Map<CaptureEntity, string[]>();
-    for (const c of live) {
-      const list = byEntity.get(c.mutation.entity);
-      if (list) list.push(c.mutation.recordId);
-      else byEntity.set(c.mutation.entity, [c.mutation.recordId]);
-    }
+    // 5a. The records (locked): only those a live mutation names, under the entity it names.
+    const wanted = new Set(live.map((c) => `${c.mutation.entity}:${c.mutation.recordId}`));
     const current = new Map<string, Current>();
     const foreign = new Set<string>();
     const entityOf = new Map<string, CaptureEntity>();
-    for (const [entity, ids] of byEntity) {
-      for (const row of await repo.loadRecords(tx, entity, [...new Set(ids)])) {
+    for (const { entity, rows } of ctx.records) {
+      for (const row of rows) {
+        if (!wanted.has(`${entity}:${row.id}`)) continue;
         if (row.organisationId !== organisationId) {
           foreign.add(row.id);
           continue;
@@ -299,24 +384,8 @@ export function createSyncService(deps: SyncServiceDeps) {
 
     const existedBefore = new Set(current.keys());
 
-    // 4. References, looked up in bulk.
-    const want = { stations: new Set<string>(), walks: new Set<string>(), levels: new Set<string>(), rooms: new Set<string>(), instruments: new Set<string>() };
-    for (const { mutation: m, record: r } of live) {
-      if (m.entity === 'stations') {
-        want.levels.add(r.levelId as string);
-        if (r.roomId) want.rooms.add(r.roomId as string);
-      }
-      if (m.entity === 'field_readings' || m.entity === 'sweeps') want.stations.add(r.stationId as string);
-      if (m.entity !== 'walks' && r.walkId) want.walks.add(r.walkId as string);
-      for (const key of ['instrumentId', 'analyserId', 'antennaId']) if (r[key]) want.instruments.add(r[key] as string);
-    }
-    const refs = await repo.references(tx, organisationId, {
-      stations: [...want.stations],
-      walks: [...want.walks],
-      levels: [...want.levels],
-      rooms: [...want.rooms],
-      instruments: [...want.instruments],
-    });
+    // 4. References (read with the context above).
+    const refs = ctx;
     // Parents created by this batch count as present for the mutations after them.
     const batchStations = new Map<string, string>();
     const batchWalks = new Map<string, string>();
@@ -326,7 +395,7 @@ export function createSyncService(deps: SyncServiceDeps) {
       const survey = surveyRows.get(m.surveyId);
       if (!survey || survey.deleted) return reject('SURVEY_NOT_FOUND', 'That survey was not found.');
       if (survey.state !== 'open') return reject('SURVEY_NOT_OPEN', `The survey is ${survey.state.replace('_', ' ')}: it takes no more captured data.`, { state: survey.state });
-      if (!assigned.has(m.surveyId)) return reject('NOT_ASSIGNED', 'You are not assigned to this survey.');
+      if (!isAssigned(m.surveyId)) return reject('NOT_ASSIGNED', 'You are not assigned to this survey.');
       if (foreign.has(m.recordId)) return reject('RECORD_ID_UNAVAILABLE', 'This record id cannot be used; make the record again with a new id.');
       const cur = current.get(m.recordId);
       if (cur && entityOf.get(m.recordId) !== m.entity) return reject('RECORD_ID_UNAVAILABLE', 'This record id belongs to another kind of record.');
@@ -410,10 +479,12 @@ export function createSyncService(deps: SyncServiceDeps) {
         pendingConflictResults.push({ index: c.index, event, server: cur.wire });
       }
     }
-    if (events.length === 0) return finish(tx, actor, deviceId, live, results, []);
+    if (events.length === 0) return finish(tx, actor, deviceId, live, results, giveBack(0));
 
-    // 6. Sequences for every event, in order; a record's row carries the last one.
-    const seqs = await repo.reserveChangeSeqs(tx, organisationId, events.length);
+    // 6. Sequences for every event, in order (the reserved ones; more, continuing them, should the
+    // reservation ever fall short); a record's row carries the last one.
+    const extra = events.length > reserved.count ? await repo.reserveChangeSeqs(tx, organisationId, events.length - reserved.count) : [];
+    const seqs = [...Array.from({ length: Math.min(events.length, reserved.count) }, (_, i) => reserved.first + i), ...extra];
     events.forEach((e, i) => (e.seq = seqs[i]!));
     const finalSeq = new Map<string, number>();
     for (const e of events) finalSeq.set(e.recordId, e.seq!);
@@ -425,14 +496,8 @@ export function createSyncService(deps: SyncServiceDeps) {
     const rowsFor = (entity: CaptureEntity, only?: string): Record<string, unknown>[] =>
       [...lastWrite.values()].filter((e) => e.entity === entity && (!only || e.recordId === only) && !failed.has(e.recordId)).map((e) => ({ ...e.record!, changeSeq: finalSeq.get(e.recordId)! }));
 
-    if (!careful) {
-      // Fast path: new records in one plain INSERT per entity, changed ones in one upsert.
-      for (const entity of WRITE_ORDER) {
-        const rows = rowsFor(entity);
-        await repo.insertRecords(tx, entity, rows.filter((r) => !existedBefore.has(r.id as string)));
-        await repo.upsertRecords(tx, entity, rows.filter((r) => existedBefore.has(r.id as string)));
-      }
-    } else {
+    if (careful) {
+      // Each record in its own savepoint, so a record the database refuses is rejected alone.
       for (const entity of WRITE_ORDER) {
         for (const e of [...lastWrite.values()].filter((w) => w.entity === entity)) {
           try {
@@ -456,15 +521,7 @@ export function createSyncService(deps: SyncServiceDeps) {
       }
     }
 
-    // Records marked conflicted (or re-answered) without a write get their new sequence here.
-    const touchOnly = survivors.filter((e) => e.kind === 'touch' && !lastWrite.has(e.recordId));
-    for (const entity of WRITE_ORDER) {
-      const items = new Map<string, number>();
-      for (const e of touchOnly) if (e.entity === entity) items.set(e.recordId, finalSeq.get(e.recordId)!);
-      await repo.touchRecords(tx, entity, [...items].map(([id, changeSeq]) => ({ id, changeSeq })));
-    }
-
-    // Conflicts: both versions kept.
+    // Conflicts: both versions kept (their ids go into the answers, so they are written first).
     const drafts = survivors.filter((e) => e.conflict).map((e) => e.conflict!);
     const conflictIds = await repo.insertConflicts(
       tx,
@@ -516,7 +573,23 @@ export function createSyncService(deps: SyncServiceDeps) {
       after: { deviceId, created: creates.map((e) => ({ entity: e.entity, id: e.recordId, revision: e.revision, changeSeq: e.seq })), mutations: live.length },
     });
     const changes = survivors.map((e) => ({ seq: e.seq!, entity: e.entity as SyncedEntity, entityId: e.recordId, revision: e.revision, deleted: e.deleted }));
-    await finish(tx, actor, deviceId, live, results, [...dirtySurveys], changes, perRecord);
+
+    // The writes, one statement. Fast path: new records in a plain INSERT per entity, changed ones in an
+    // upsert (careful mode wrote them above, each in its savepoint). Records marked conflicted (or
+    // re-answered) without a write get their new sequence. Then the batch's traces.
+    const touchOnly = survivors.filter((e) => e.kind === 'touch' && !lastWrite.has(e.recordId));
+    const records = WRITE_ORDER.map((entity) => {
+      const rows = careful ? [] : rowsFor(entity);
+      const touches = new Map<string, number>();
+      for (const e of touchOnly) if (e.entity === entity) touches.set(e.recordId, finalSeq.get(e.recordId)!);
+      return {
+        entity,
+        inserts: rows.filter((r) => !existedBefore.has(r.id as string)),
+        upserts: rows.filter((r) => existedBefore.has(r.id as string)),
+        touches: [...touches].map(([id, changeSeq]) => ({ id, changeSeq })),
+      };
+    });
+    await finish(tx, actor, deviceId, live, results, giveBack(events.length), [...dirtySurveys], changes, perRecord, records);
   }
 
   /**
@@ -529,14 +602,20 @@ export function createSyncService(deps: SyncServiceDeps) {
     deviceId: string,
     live: Candidate[],
     results: (PushResult | undefined)[],
-    dirty: string[],
+    counter: number | null,
+    dirty: string[] = [],
     changes: { seq: number; entity: SyncedEntity; entityId: string; revision: number; deleted: boolean }[] = [],
     audits: { action: string; entity: string; entityId: string; before: unknown; after: unknown }[] = [],
+    records: Parameters<SyncRepository['writeBatch']>[1]['records'] = [],
   ) {
+    // The answer is stored without its mutation id (the row's key; put back when it is read again).
     const mutations = live
       .filter((c) => results[c.index] && results[c.index]!.status !== 'rejected')
-      .map((c) => ({ mutationId: c.mutation.mutationId, entity: c.mutation.entity, recordId: c.mutation.recordId, queuedAt: c.mutation.queuedAt, result: results[c.index] as unknown as Record<string, unknown> }));
-    await repo.finishBatch(tx, { organisationId: actor.organisationId, deviceId, userId: actor.userId, requestId: actor.requestId ?? null, changes, mutations, audits, dirtySurveyIds: dirty });
+      .map((c) => {
+        const { mutationId: _key, ...answer } = results[c.index]!;
+        return { mutationId: c.mutation.mutationId, entity: c.mutation.entity, recordId: c.mutation.recordId, queuedAt: c.mutation.queuedAt, result: answer as Record<string, unknown> };
+      });
+    await repo.writeBatch(tx, { organisationId: actor.organisationId, deviceId, userId: actor.userId, requestId: actor.requestId ?? null, records, changes, mutations, audits, dirtySurveyIds: dirty, counter });
   }
 
   // ------------------------------------------------------------------------------------------ pull
