@@ -52,6 +52,9 @@ import sourcesRouter from './features/sources/sources.router';
 import emcRouter from './features/emc/emc.router';
 import { createEmcRepository } from './features/emc/emc.repository';
 import { createEmcService } from './features/emc/emc.service';
+import emcSweepsRouter from './features/emc-sweeps/emc-sweeps.router';
+import { createEmcSweepsRepository } from './features/emc-sweeps/emc-sweeps.repository';
+import { createEmcSweepsService } from './features/emc-sweeps/emc-sweeps.service';
 import watchBandsRouter from './features/watch-bands/watch-bands.router';
 import { createWatchBandsRepository } from './features/watch-bands/watch-bands.repository';
 import { createWatchBandsService } from './features/watch-bands/watch-bands.service';
@@ -162,6 +165,8 @@ export function createApp(deps: AppDeps): FringewalkApp {
   api.use(watchBandsRouter({ watchBands: createWatchBandsService(createWatchBandsRepository(deps.db)), guards }));
   // EMC (issue 8): predicted lines per room and their flags (computed by the flag job, emc-flag-job.ts).
   api.use(emcRouter({ emc: createEmcService({ repo: createEmcRepository(deps.db), mailer: deps.mailer, publicUrl: deps.publicUrl, logger: deps.logger }), guards }));
+  // EMC (issue 8 §4): sweeps explained — peaks matched to predicted lines.
+  api.use(emcSweepsRouter({ emcSweeps: createEmcSweepsService({ repo: createEmcSweepsRepository(deps.db), storage, logger: deps.logger }), guards }));
   api.use(
     instrumentsRouter({
       instruments: createInstrumentsService({ repo: createInstrumentsRepository(deps.db), storage, mailer: deps.mailer, publicUrl: deps.publicUrl, logger: deps.logger }),

@@ -7,6 +7,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ROLES, type Role } from '../../shared/schemas/common';
 import { seedDemo } from '../../server/db/seed/demo';
+import { demoId } from '../../server/db/seed/ids';
 import { DEMO_PASSWORD, demoEmail, signIn, tokenFromLink, type SignedIn } from '../setup/api-helpers';
 import { listRoutes } from '../setup/route-walk';
 import { createTestApp, RELAXED_RATE_LIMITS, TRUSTED_ORIGIN, type InProcessApp } from '../setup/test-app';
@@ -211,6 +212,14 @@ const MATRIX: Row[] = [
     expect: only(BAND_KEEPERS, 201),
     // A fresh scanner of a field of its own each time: a receive band (same edges) can be added once.
     prepare: async (ctx) => ({ params: { sourceId: await ctx.setup.create(`/sites/${ctx.siteId}/sources`, { name: ctx.unique(), kind: 'mri', nominalFieldT: 1 + (mriScanners += 1) / 10 }) } }),
+  },
+  // Sweeps explained (issue 8 §4): every member reads them (emc-sweeps.test.ts has the content).
+  { method: 'GET', path: '/api/orgs/:orgId/surveys/:surveyId/sweeps', expect: members(200) },
+  {
+    method: 'GET',
+    path: '/api/orgs/:orgId/surveys/:surveyId/sweeps/:sweepId/explained',
+    expect: members(200),
+    prepare: () => ({ params: { surveyId: demoId('harrowby:survey:2026'), sweepId: demoId('harrowby:survey:2026:sweep:etch') } }),
   },
   // EMC (issue 8 §2–§3): predictions and flags read by every member; flags worked by EMC engineers and admins
   // (a made-up flag: the guards pass, then 404 — the life of a real flag: emc-flags.test.ts).

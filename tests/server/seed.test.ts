@@ -9,6 +9,7 @@ import { and, eq, sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createDb, type Db } from '../../server/db/client';
 import {
+  attachments,
   changeLog,
   fieldReadings,
   memberships,
@@ -24,6 +25,11 @@ import {
 import { DEMO_PASSWORD, HARROWBY_ORG_ID, KESTREL_ORG_ID, seedDemo, type DemoSeedResult } from '../../server/db/seed/demo';
 import { HARROWBY, HARROWBY_SOURCES, KESTREL } from '../../server/db/seed/demo-data';
 import { demoId } from '../../server/db/seed/ids';
+import { seedDemoFiles } from '../../server/db/seed/demo-files';
+import { findTracePeaks } from '../../shared/emc/peaks';
+import { parseTraceCsv } from '../../shared/emc/trace-csv';
+import { attachmentObjectKey } from '../../shared/sync/attachment-key';
+import { startTestStorage } from '../setup/test-app';
 import { demoPlanDrawings, PLANS_DIR, renderPlanSvg } from '../../server/db/seed/plan-svg';
 import { verifyPassword } from '../../server/features/auth/password';
 import { createTestDatabase, type TestDatabase } from '../setup/test-db';
@@ -261,6 +267,43 @@ describe('seedDemo', () => {
       expect(plan.sha256).toBe((await import('node:crypto')).createHash('sha256').update(bytes).digest('hex'));
       // 0.05 m per pixel × 960 px = 48 m, the plan width in demo-data.ts.
       expect(plan.metresPerPixel! * plan.widthPx).toBeCloseTo(48, 9);
+    }
+  });
+  it('stores trace files for the etch and corridor sweeps like uploaded attachments, made again byte for byte on every start', async () => {
+    const files = await startTestStorage();
+    try {
+      const rows = await first.db.select().from(sweeps).where(eq(sweeps.surveyId, demoId('harrowby:survey:2026')));
+      const withTrace = rows.filter((r) => r.traceObjectKey !== null);
+      expect(withTrace.map((r) => r.id).sort()).toEqual([demoId('harrowby:survey:2026:sweep:etch'), demoId('harrowby:survey:2026:sweep:corridor')].sort());
+      const uploaded = await seedDemoFiles(first.db, files.storage);
+      for (const sweep of withTrace) {
+        // The key is the one the server derives for an upload (shared/sync/attachment-key.ts).
+        expect(sweep.traceObjectKey).toBe(attachmentObjectKey(HARROWBY_ORG_ID, 'trace', sweep.id, sweep.traceSha256!));
+        const [arrived] = await first.db.select().from(attachments).where(and(eq(attachments.organisationId, HARROWBY_ORG_ID), eq(attachments.objectKey, sweep.traceObjectKey!)));
+        expect(arrived).toMatchObject({ entity: 'sweeps', recordId: sweep.id, kind: 'trace', sha256: sweep.traceSha256, contentType: 'text/csv' });
+        expect(uploaded).toContain(sweep.traceObjectKey);
+        const object = await files.storage.getObject(sweep.traceObjectKey!);
+        const chunks: Buffer[] = [];
+        for await (const chunk of object!.body) chunks.push(chunk as Buffer);
+        const bytes = Buffer.concat(chunks);
+        expect(bytes.length).toBe(arrived!.bytes);
+        expect((await import('node:crypto')).createHash('sha256').update(bytes).digest('hex')).toBe(sweep.traceSha256);
+        // The format the capture form accepts, spanning the sweep, with a peak at every marker (within a bin).
+        const parsed = parseTraceCsv(bytes.toString('utf8'));
+        expect(parsed.ok).toBe(true);
+        if (!parsed.ok) continue;
+        expect(parsed.unit).toBe('MHz');
+        expect(parsed.trace.frequencyHz[0]).toBeCloseTo(sweep.startHz, 0);
+        expect(parsed.trace.frequencyHz[parsed.trace.frequencyHz.length - 1]).toBeCloseTo(sweep.stopHz, 0);
+        const bin = (sweep.stopHz - sweep.startHz) / (parsed.trace.frequencyHz.length - 1);
+        const found = findTracePeaks(parsed.trace, { rbwHz: sweep.rbwHz }).peaks;
+        expect(found).toHaveLength(sweep.peaks.length);
+        for (const marker of sweep.peaks) expect(found.some((p) => Math.abs(p.frequencyHz - marker.frequencyHz) <= bin / 2 + 1)).toBe(true);
+      }
+      // A second start finds them there and uploads nothing.
+      expect(await seedDemoFiles(first.db, files.storage)).toEqual([]);
+    } finally {
+      await files.close();
     }
   });
 });

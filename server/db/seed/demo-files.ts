@@ -1,6 +1,7 @@
 /**
  * Puts the demo plans' SVG files (server/db/seed/plans/) into the object store under the keys the seed's
- * plan rows name (`demo/<file>`), so GET …/plans/:planId/image serves them. Idempotent: a key already in
+ * plan rows name (`demo/<file>`), so GET …/plans/:planId/image serves them, and the demo sweeps' trace
+ * files under the keys their sweeps name (server/db/seed/demo-traces.ts). Idempotent: a key already in
  * the store is left alone, so it runs on every start.
  */
 import fs from 'node:fs/promises';
@@ -9,6 +10,8 @@ import { like } from 'drizzle-orm';
 import type { Storage } from '../../lib/storage';
 import type { Db } from '../client';
 import { plans } from '../schema';
+import { DEMO_TRACE_SWEEP_IDS } from './demo';
+import { seedDemoTraceFiles } from './demo-traces';
 import { PLANS_DIR } from './plan-svg';
 
 export const DEMO_OBJECT_PREFIX = 'demo/';
@@ -24,5 +27,6 @@ export async function seedDemoFiles(db: Db, storage: Storage): Promise<string[]>
     await storage.putObject(row.objectKey, bytes, row.mime);
     uploaded.push(row.objectKey);
   }
+  uploaded.push(...(await seedDemoTraceFiles(db, storage, DEMO_TRACE_SWEEP_IDS)));
   return uploaded;
 }

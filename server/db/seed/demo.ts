@@ -24,6 +24,7 @@ import { hashPassword } from '../../features/auth/password';
 import { recordAudit, recordChanges } from '../audit';
 import type { Db, Tx } from '../client';
 import {
+  attachments,
   decisions,
   emitters,
   fieldReadings,
@@ -69,11 +70,14 @@ import {
 import { demoId } from './ids';
 import { PLAN_HEIGHT_PX, PLAN_WIDTH_PX, PLANS_DIR } from './plan-svg';
 import { createPrng, type Prng } from './prng';
+import { DEMO_TRACES, demoTraceRows } from './demo-traces';
 
 export { DEMO_PASSWORD } from './demo-data';
 
 export const HARROWBY_ORG_ID = demoId('organisation:harrowby');
 export const KESTREL_ORG_ID = demoId('organisation:kestrel');
+/** The demo sweeps that carry a trace file, by key (server/db/seed/demo-traces.ts). */
+export const DEMO_TRACE_SWEEP_IDS: Record<string, string> = Object.fromEntries(Object.keys(DEMO_TRACES).map((key) => [key, demoId(`${HARROWBY.key}:survey:2026:sweep:${key}`)]));
 
 /** Serialises concurrent seeders (an arbitrary fixed key). */
 const SEED_LOCK_KEY = 7_320_114;
@@ -113,6 +117,8 @@ interface Batch {
 
 class RowSet {
   readonly batches: Batch[] = [];
+  /** Files that have "arrived" for synced rows (the demo traces); not synced rows themselves. */
+  readonly attachments: InferInsertModel<typeof attachments>[] = [];
   add<T extends PgTable & Table>(entity: SyncedEntity, table: T, rows: InferInsertModel<T>[]): void {
     if (rows.length > 0) this.batches.push({ entity, table, rows: rows as unknown as SyncedRow[] });
   }
@@ -137,6 +143,7 @@ async function writeRowSet(tx: Tx, organisationId: string, set: RowSet): Promise
       await tx.insert(b.table).values(b.rows.slice(start, start + INSERT_CHUNK_ROWS) as InferInsertModel<PgTable>[]);
     }
   }
+  if (set.attachments.length > 0) await tx.insert(attachments).values(set.attachments);
 }
 
 // ---------------------------------------------------------------------------------------------------------------------
@@ -781,6 +788,13 @@ function buildHarrowby(organisationId: string, people: UserIds): RowSet {
     for (const sp of sweepPlans) {
       ctx.clock.atMs += 5 * 60_000;
       const lineHz = cyclotronFrequencyHz('electron', sp.at.fieldT);
+      const sweepPeaks = [{ frequencyHz: Number(lineHz.toPrecision(6)), levelDbm: sp.lineLevelDbm }, ...sp.extraPeaks].sort((a, b) => a.frequencyHz - b.frequencyHz);
+      const traceSpec = DEMO_TRACES[sp.key];
+      // The trace file: made from the same markers, "uploaded" by the surveyor a minute after the sweep.
+      const trace = traceSpec
+        ? demoTraceRows(organisationId, id(`survey:2026:sweep:${sp.key}`), { startHz: sp.startHz, stopHz: sp.stopHz, rbwHz: sp.rbwHz, peaks: sweepPeaks }, traceSpec, new Date(ctx.clock.atMs + 60_000), user('surveyor'))
+        : null;
+      if (trace) set.attachments.push(trace.attachment);
       sweepRows.push({
         id: id(`survey:2026:sweep:${sp.key}`),
         organisationId,
@@ -799,7 +813,8 @@ function buildHarrowby(organisationId: string, people: UserIds): RowSet {
         referenceLevelDbm: -20,
         attenuationDb: 10,
         detector: sp.detector,
-        peaks: [{ frequencyHz: Number(lineHz.toPrecision(6)), levelDbm: sp.lineLevelDbm }, ...sp.extraPeaks].sort((a, b) => a.frequencyHz - b.frequencyHz),
+        peaks: sweepPeaks,
+        ...(trace?.sweepColumns ?? {}),
         heightM: 1,
         notes: sp.notes,
       });

@@ -10,8 +10,10 @@ import { formatFluxDensity, formatFrequency } from '@shared/units';
 import { Alert } from '@/components/alert';
 import { FrequencyRuler, type RulerLine } from '@/components/frequency-ruler';
 import { FlagCard } from '@/features/emc/components/flag-card';
+import { SweepPanel } from '@/features/emc/components/sweep-panel';
 import { useEmcRooms } from '@/features/emc/data/list-emc-rooms';
 import { useFlags } from '@/features/emc/data/list-flags';
+import { useSweeps } from '@/features/emc/data/list-sweeps';
 import { useWatchBands } from '@/features/emc/data/list-watch-bands';
 import { QueryState } from '@/features/site-setup/components/query-state';
 import { useSignedIn } from './signed-in-layout';
@@ -24,6 +26,7 @@ export default function SurveyEmcRoomRoute() {
   const rooms = useEmcRooms(organisationId, surveyId);
   const flags = useFlags(organisationId, surveyId, DEFAULT_VICTIM_DISTANCE_M);
   const bands = useWatchBands(organisationId);
+  const sweeps = useSweeps(organisationId, surveyId);
   if (!rooms.data) return <QueryState label="the room" query={rooms} />;
   const room = rooms.data.rooms.find((r) => r.roomId === roomId);
   if (!room) {
@@ -45,6 +48,7 @@ export default function SurveyEmcRoomRoute() {
     hits: room.hits.filter((h) => h.species === l.species && h.harmonic === l.harmonic),
   }));
   const roomFlags = (flags.data?.flags ?? []).filter((f) => f.roomId === roomId);
+  const roomSweeps = (sweeps.data?.sweeps ?? []).filter((s) => s.room?.id === roomId);
 
   return (
     <div className="flex flex-col gap-6">
@@ -95,6 +99,19 @@ export default function SurveyEmcRoomRoute() {
           <p className="text-fg-muted">No line of this room falls in a watched band.</p>
         ) : (
           roomFlags.map((f) => <FlagCard key={f.id} flag={f} organisationId={organisationId} surveyId={surveyId} canWork={canWork} />)
+        )}
+      </section>
+
+      <section aria-labelledby="room-sweeps-heading" className="flex flex-col gap-3">
+        <h2 id="room-sweeps-heading" className="text-2xl font-bold">
+          Analyser sweeps in this room
+        </h2>
+        {!sweeps.data ? (
+          <QueryState label="sweeps" query={sweeps} />
+        ) : roomSweeps.length === 0 ? (
+          <p className="text-fg-muted">No sweep was taken in this room. A surveyor records one with the analyser from the capture screen.</p>
+        ) : (
+          roomSweeps.map((s) => <SweepPanel key={s.id} organisationId={organisationId} surveyId={surveyId} sweep={s} />)
         )}
       </section>
     </div>

@@ -1,0 +1,73 @@
+/**
+ * Sweep trace files: rows of (frequency, level in dBm), comma, semicolon or tab separated, with an
+ * optional header row whose first column may name the frequency unit ("Frequency (MHz)"); hertz
+ * otherwise. The same format the capture form accepts for a sweep's trace (its own check lives in the
+ * capture feature); this module reads the points themselves, for the server and for charts, and writes
+ * the same format back out (the demo traces).
+ */
+import Papa from 'papaparse';
+
+export const TRACE_FREQUENCY_UNITS = ['Hz', 'kHz', 'MHz', 'GHz'] as const;
+export type TraceFrequencyUnit = (typeof TRACE_FREQUENCY_UNITS)[number];
+
+const UNIT_FACTOR: Record<TraceFrequencyUnit, number> = { Hz: 1, kHz: 1e3, MHz: 1e6, GHz: 1e9 };
+
+/** A trace file has at most this many points (a long analyser export is a few tens of thousands). */
+export const TRACE_MAX_POINTS = 200_000;
+
+/** One trace, as two parallel arrays sorted by frequency. */
+export interface Trace {
+  readonly frequencyHz: Float64Array;
+  readonly levelDbm: Float64Array;
+}
+
+export type TraceParse = { ok: true; trace: Trace; unit: TraceFrequencyUnit } | { ok: false; message: string };
+
+/** Reads a trace file; rows out of frequency order are sorted, repeated frequencies keep the last row. */
+export function parseTraceCsv(text: string): TraceParse {
+  const parsed = Papa.parse<string[]>(text, { skipEmptyLines: 'greedy' });
+  const rows = parsed.data.filter((r) => r.some((c) => c.trim() !== ''));
+  if (rows.length === 0) return { ok: false, message: 'The trace file is empty.' };
+  let unit: TraceFrequencyUnit = 'Hz';
+  let first = 0;
+  const head = rows[0] as string[];
+  if (head.length > 0 && !Number.isFinite(Number(head[0]))) {
+    first = 1;
+    const match = /\b(GHz|MHz|kHz|Hz)\b/i.exec(head[0] ?? '');
+    if (match) unit = TRACE_FREQUENCY_UNITS.find((u) => u.toLowerCase() === (match[1] as string).toLowerCase()) ?? 'Hz';
+  }
+  const count = rows.length - first;
+  if (count === 0) return { ok: false, message: 'The trace file has a header but no data rows.' };
+  if (count > TRACE_MAX_POINTS) return { ok: false, message: `The trace has ${count} points; at most ${TRACE_MAX_POINTS} are read.` };
+  const points: Array<[number, number]> = [];
+  for (let i = first; i < rows.length; i++) {
+    const row = rows[i] as string[];
+    if (row.length < 2) return { ok: false, message: `Row ${i + 1} has ${row.length} column; a trace needs frequency and level.` };
+    const f = Number((row[0] as string).trim());
+    const level = Number((row[1] as string).trim());
+    if (!Number.isFinite(f) || f <= 0) return { ok: false, message: `Row ${i + 1}: “${row[0]}” is not a frequency above 0.` };
+    if (!Number.isFinite(level)) return { ok: false, message: `Row ${i + 1}: “${row[1]}” is not a level in dBm.` };
+    points.push([f * UNIT_FACTOR[unit], level]);
+  }
+  points.sort((a, b) => a[0] - b[0]);
+  const frequencyHz: number[] = [];
+  const levelDbm: number[] = [];
+  for (const [f, level] of points) {
+    if (frequencyHz.length > 0 && frequencyHz[frequencyHz.length - 1] === f) levelDbm[levelDbm.length - 1] = level;
+    else {
+      frequencyHz.push(f);
+      levelDbm.push(level);
+    }
+  }
+  return { ok: true, trace: { frequencyHz: Float64Array.from(frequencyHz), levelDbm: Float64Array.from(levelDbm) }, unit };
+}
+
+/** Writes a trace in the accepted format: a "Frequency (MHz),Level (dBm)" header, CRLF line ends. */
+export function traceToCsv(trace: Trace, unit: TraceFrequencyUnit = 'MHz'): string {
+  const factor = UNIT_FACTOR[unit];
+  const lines = [`Frequency (${unit}),Level (dBm)`];
+  for (let i = 0; i < trace.frequencyHz.length; i++) {
+    lines.push(`${Number(((trace.frequencyHz[i] as number) / factor).toPrecision(12))},${Number((trace.levelDbm[i] as number).toFixed(2))}`);
+  }
+  return lines.join('\r\n') + '\r\n';
+}
