@@ -52,15 +52,18 @@ import sourcesRouter from './features/sources/sources.router';
 import emcRouter from './features/emc/emc.router';
 import { createEmcRepository } from './features/emc/emc.repository';
 import { createEmcService } from './features/emc/emc.service';
-import emcSweepsRouter from './features/emc-sweeps/emc-sweeps.router';
-import { createEmcSweepsRepository } from './features/emc-sweeps/emc-sweeps.repository';
-import { createEmcSweepsService } from './features/emc-sweeps/emc-sweeps.service';
 import watchBandsRouter from './features/watch-bands/watch-bands.router';
 import { createWatchBandsRepository } from './features/watch-bands/watch-bands.repository';
 import { createWatchBandsService } from './features/watch-bands/watch-bands.service';
+import emcSweepsRouter from './features/emc-sweeps/emc-sweeps.router';
+import { createEmcSweepsRepository } from './features/emc-sweeps/emc-sweeps.repository';
+import { createEmcSweepsService } from './features/emc-sweeps/emc-sweeps.service';
 import { createSourcesRepository } from './features/sources/sources.repository';
 import { createSourcesService } from './features/sources/sources.service';
 import surveySetupRouter from './features/survey-setup/survey-setup.router';
+import surveyMapRouter from './features/survey-map/survey-map.router';
+import { createSurveyMapRepository } from './features/survey-map/survey-map.repository';
+import { createSurveyMapService } from './features/survey-map/survey-map.service';
 import { createSurveySetupRepository } from './features/survey-setup/survey-setup.repository';
 import { createSurveySetupService } from './features/survey-setup/survey-setup.service';
 import { createSurveysRepository } from './features/surveys/surveys.repository';
@@ -165,8 +168,6 @@ export function createApp(deps: AppDeps): FringewalkApp {
   api.use(watchBandsRouter({ watchBands: createWatchBandsService(createWatchBandsRepository(deps.db)), guards }));
   // EMC (issue 8): predicted lines per room and their flags (computed by the flag job, emc-flag-job.ts).
   api.use(emcRouter({ emc: createEmcService({ repo: createEmcRepository(deps.db), mailer: deps.mailer, publicUrl: deps.publicUrl, logger: deps.logger }), guards }));
-  // EMC (issue 8 §4): sweeps explained — peaks matched to predicted lines.
-  api.use(emcSweepsRouter({ emcSweeps: createEmcSweepsService({ repo: createEmcSweepsRepository(deps.db), storage, logger: deps.logger }), guards }));
   api.use(
     instrumentsRouter({
       instruments: createInstrumentsService({ repo: createInstrumentsRepository(deps.db), storage, mailer: deps.mailer, publicUrl: deps.publicUrl, logger: deps.logger }),
@@ -185,6 +186,10 @@ export function createApp(deps: AppDeps): FringewalkApp {
   const sync = createSyncService({ repo: syncRepo, logger: deps.logger, onRepeatsDirty: repeats.schedule });
   api.use(syncRouter({ sync, repeats, guards }));
   api.use(attachmentsRouter({ attachments: createAttachmentsService({ repo: createAttachmentsRepository(deps.db), storage }), guards }));
+  // Survey maps (issue 7 §1–2, §6): maps, comparison, GeoJSON export; computed here, stored per data version.
+  api.use(surveyMapRouter({ surveyMap: createSurveyMapService({ repo: createSurveyMapRepository(deps.db), logger: deps.logger }), guards }));
+  // EMC (issue 8 §4): sweeps explained — peaks matched to predicted lines.
+  api.use(emcSweepsRouter({ emcSweeps: createEmcSweepsService({ repo: createEmcSweepsRepository(deps.db), storage, logger: deps.logger }), guards }));
   api.use(auditRouter({ audit: createAuditService(createAuditRepository(deps.db)), guards }));
   api.use(devMailRouter({ capture: deps.mailCapture ?? null, auth: authService, guards }));
   api.use(apiNotFound);

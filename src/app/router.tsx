@@ -48,6 +48,8 @@ export const router = createBrowserRouter([
           { path: '/surveys/:surveyId', element: <SurveyRoute />, errorElement },
           // Capture carries Leaflet and the forms: loaded when opened (the service worker precaches the chunk).
           { path: '/surveys/:surveyId/capture', lazy: async () => ({ Component: (await import('./routes/capture')).default }), errorElement },
+          // The survey map carries Leaflet: loaded when opened.
+          { path: '/surveys/:surveyId/map', lazy: async () => ({ Component: (await import('./routes/survey-map')).default }), errorElement },
         ],
       },
       { path: '*', element: <NotFoundRoute /> },

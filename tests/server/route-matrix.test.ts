@@ -136,6 +136,19 @@ const MATRIX: Row[] = [
     prepare: () => ({ params: { conflictId: '00000000-0000-7000-8000-00000000c0f1' }, body: { choose: 'server' } }),
   },
   { method: 'GET', path: '/api/orgs/:orgId/surveys/:surveyId/repeats', expect: members(200) },
+  // Survey maps (issue 7 §1–2, §6): admins, reviewers, EMC engineers, and surveyors assigned to the survey (the demo surveyor is, to surveys[0]).
+  { method: 'GET', path: '/api/orgs/:orgId/surveys/:surveyId/map', expect: only(['admin', 'reviewer', 'emc', 'surveyor']) },
+  // Without ?with= the guards pass and the query is refused (the comparison itself: survey-map.test.ts).
+  { method: 'GET', path: '/api/orgs/:orgId/surveys/:surveyId/compare', expect: only(['admin', 'reviewer', 'emc', 'surveyor'], 400) },
+  { method: 'GET', path: '/api/orgs/:orgId/surveys/:surveyId/exports/survey.geojson', expect: only(['admin', 'reviewer', 'emc', 'surveyor']) },
+  // Sweeps explained (issue 8 §4): every member reads them (emc-sweeps.test.ts has the content).
+  { method: 'GET', path: '/api/orgs/:orgId/surveys/:surveyId/sweeps', expect: members(200) },
+  {
+    method: 'GET',
+    path: '/api/orgs/:orgId/surveys/:surveyId/sweeps/:sweepId/explained',
+    expect: members(200),
+    prepare: () => ({ params: { surveyId: demoId('harrowby:survey:2026'), sweepId: demoId('harrowby:survey:2026:sweep:etch') } }),
+  },
   // JSON is not a photo: the guards pass, then the content type is refused.
   {
     method: 'PUT',
@@ -212,14 +225,6 @@ const MATRIX: Row[] = [
     expect: only(BAND_KEEPERS, 201),
     // A fresh scanner of a field of its own each time: a receive band (same edges) can be added once.
     prepare: async (ctx) => ({ params: { sourceId: await ctx.setup.create(`/sites/${ctx.siteId}/sources`, { name: ctx.unique(), kind: 'mri', nominalFieldT: 1 + (mriScanners += 1) / 10 }) } }),
-  },
-  // Sweeps explained (issue 8 §4): every member reads them (emc-sweeps.test.ts has the content).
-  { method: 'GET', path: '/api/orgs/:orgId/surveys/:surveyId/sweeps', expect: members(200) },
-  {
-    method: 'GET',
-    path: '/api/orgs/:orgId/surveys/:surveyId/sweeps/:sweepId/explained',
-    expect: members(200),
-    prepare: () => ({ params: { surveyId: demoId('harrowby:survey:2026'), sweepId: demoId('harrowby:survey:2026:sweep:etch') } }),
   },
   // EMC (issue 8 §2–§3): predictions and flags read by every member; flags worked by EMC engineers and admins
   // (a made-up flag: the guards pass, then 404 — the life of a real flag: emc-flags.test.ts).

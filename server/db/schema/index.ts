@@ -9,3 +9,4 @@ export * from './flags';
 export * from './log';
 export * from './sync';
 export * from './synced-tables';
+export * from './maps';

@@ -32,6 +32,8 @@ import { useOnlineStatus } from '@/lib/online-status';
 import { useSignedIn } from './signed-in-layout';
 
 const OFFLINE_ROLES: readonly Role[] = ['surveyor', 'reviewer', 'admin'];
+/** Who sees the survey map link (the server also lets only the survey's own surveyors in). */
+const MAP_ROLES: readonly Role[] = ['admin', 'reviewer', 'emc', 'surveyor'];
 
 const STATE_LABELS = { open: 'Open', submitted: 'Submitted for review', signed_off: 'Signed off' } as const;
 
@@ -170,6 +172,13 @@ export default function SurveyRoute() {
         </Link>
         {offline === null && <p className="text-fg-muted">Take the survey offline first: capture works from the copy on this device.</p>}
       </section>
+
+      {MAP_ROLES.includes(membership.role) && (
+        <Link to={`/surveys/${surveyId}/map`} className="inline-flex min-h-touch items-center self-start font-bold" data-testid="open-survey-map">
+          Open the survey map
+        </Link>
+      )}
+
 
       <section aria-labelledby="offline-title" className="flex flex-col gap-3 rounded-xl border border-border bg-surface p-4">
         <h2 id="offline-title" className="text-xl font-bold">
