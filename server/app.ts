@@ -61,6 +61,10 @@ import { createEmcSweepsService } from './features/emc-sweeps/emc-sweeps.service
 import { createSourcesRepository } from './features/sources/sources.repository';
 import { createSourcesService } from './features/sources/sources.service';
 import surveySetupRouter from './features/survey-setup/survey-setup.router';
+import reviewRouter from './features/review/review.router';
+import { createReadingsCsv } from './features/review/readings-csv';
+import { createReviewRepository } from './features/review/review.repository';
+import { createReviewService } from './features/review/review.service';
 import surveyMapRouter from './features/survey-map/survey-map.router';
 import { createSurveyMapRepository } from './features/survey-map/survey-map.repository';
 import { createSurveyMapService } from './features/survey-map/survey-map.service';
@@ -188,6 +192,12 @@ export function createApp(deps: AppDeps): FringewalkApp {
   api.use(attachmentsRouter({ attachments: createAttachmentsService({ repo: createAttachmentsRepository(deps.db), storage }), guards }));
   // Survey maps (issue 7 §1–2, §6): maps, comparison, GeoJSON export; computed here, stored per data version.
   api.use(surveyMapRouter({ surveyMap: createSurveyMapService({ repo: createSurveyMapRepository(deps.db), logger: deps.logger }), guards }));
+  // Review (issue 7 §3–7): review table, decisions, submit / sign-off / reopen, report, readings CSV.
+  {
+    const reviewRepo = createReviewRepository(deps.db);
+    const review = createReviewService({ repo: reviewRepo, mailer: deps.mailer, publicUrl: deps.publicUrl, logger: deps.logger });
+    api.use(reviewRouter({ review, csv: createReadingsCsv({ repo: reviewRepo, review }), guards }));
+  }
   // EMC (issue 8 §4): sweeps explained — peaks matched to predicted lines.
   api.use(emcSweepsRouter({ emcSweeps: createEmcSweepsService({ repo: createEmcSweepsRepository(deps.db), storage, logger: deps.logger }), guards }));
   api.use(auditRouter({ audit: createAuditService(createAuditRepository(deps.db)), guards }));

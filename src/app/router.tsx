@@ -50,6 +50,9 @@ export const router = createBrowserRouter([
           { path: '/surveys/:surveyId/capture', lazy: async () => ({ Component: (await import('./routes/capture')).default }), errorElement },
           // The survey map carries Leaflet: loaded when opened.
           { path: '/surveys/:surveyId/map', lazy: async () => ({ Component: (await import('./routes/survey-map')).default }), errorElement },
+          // Review carries TanStack Table and Virtual; the report embeds the map (Leaflet): both loaded when opened.
+          { path: '/surveys/:surveyId/review', lazy: async () => ({ Component: (await import('./routes/survey-review')).default }), errorElement },
+          { path: '/surveys/:surveyId/report', lazy: async () => ({ Component: (await import('./routes/survey-report')).default }), errorElement },
         ],
       },
       { path: '*', element: <NotFoundRoute /> },

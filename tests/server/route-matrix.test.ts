@@ -291,6 +291,28 @@ const MATRIX: Row[] = [
     prepare: async (ctx) => ({ params: { surveyId: await ctx.setup.create(`/sites/${ctx.siteId}/surveys`, { name: ctx.unique() }) }, body: { surveyors: [], reviewers: [] } }),
   },
   { method: 'GET', path: '/api/orgs/:orgId/sites/:siteId/audit', expect: only(['admin']) },
+  // Review (issue 7 §3–7): the table, decisions, sign-off and import for reviewers and admins; report and CSV for every member.
+  { method: 'GET', path: '/api/orgs/:orgId/surveys/:surveyId/review/readings', expect: only(WRITERS) },
+  {
+    method: 'POST',
+    path: '/api/orgs/:orgId/surveys/:surveyId/decisions',
+    expect: only(WRITERS, 404),
+    prepare: () => ({ body: { readingIds: ['00000000-0000-7000-8000-0000000dec1d'], verdict: 'accepted' } }),
+  },
+  // A fresh survey per call (submitting closes it); the demo surveyor is not on its team, so 403 NOT_ASSIGNED.
+  {
+    method: 'POST',
+    path: '/api/orgs/:orgId/surveys/:surveyId/submit',
+    expect: only(WRITERS),
+    prepare: async (ctx) => ({ params: { surveyId: await ctx.setup.create(`/sites/${ctx.siteId}/surveys`, { name: ctx.unique() }) } }),
+  },
+  // The demo survey is open: signing off and reopening are refused after the guards.
+  { method: 'POST', path: '/api/orgs/:orgId/surveys/:surveyId/sign-off', expect: only(WRITERS, 409) },
+  { method: 'POST', path: '/api/orgs/:orgId/surveys/:surveyId/reopen', expect: only(WRITERS, 409), prepare: () => ({ body: { reason: 'Matrix.' } }) },
+  { method: 'GET', path: '/api/orgs/:orgId/surveys/:surveyId/report', expect: members(200) },
+  { method: 'GET', path: '/api/orgs/:orgId/surveys/:surveyId/exports/readings.csv', expect: members(200) },
+  // JSON is not a CSV: the guards pass, then the content type is refused.
+  { method: 'POST', path: '/api/orgs/:orgId/surveys/:surveyId/imports/readings', expect: only(WRITERS, 415), prepare: () => ({ body: { csv: 'not a file' } }) },
   // Admin of any organisation, and only while the local mail capture runs (it does in tests).
   { method: 'GET', path: '/api/dev/mail', expect: only(['admin']) },
 ];

@@ -34,6 +34,8 @@ import { useSignedIn } from './signed-in-layout';
 const OFFLINE_ROLES: readonly Role[] = ['surveyor', 'reviewer', 'admin'];
 /** Who sees the survey map link (the server also lets only the survey's own surveyors in). */
 const MAP_ROLES: readonly Role[] = ['admin', 'reviewer', 'emc', 'surveyor'];
+/** Who sees the review link (the review routes admit reviewers and admins). */
+const REVIEW_LINK_ROLES: readonly Role[] = ['admin', 'reviewer'];
 
 const STATE_LABELS = { open: 'Open', submitted: 'Submitted for review', signed_off: 'Signed off' } as const;
 
@@ -179,6 +181,14 @@ export default function SurveyRoute() {
         </Link>
       )}
 
+      {REVIEW_LINK_ROLES.includes(membership.role) && (
+        <Link to={`/surveys/${surveyId}/review`} className="inline-flex min-h-touch items-center self-start font-bold" data-testid="open-review">
+          Review and sign off
+        </Link>
+      )}
+      <Link to={`/surveys/${surveyId}/report`} className="inline-flex min-h-touch items-center self-start font-bold" data-testid="open-survey-report">
+        Survey report
+      </Link>
 
       <section aria-labelledby="offline-title" className="flex flex-col gap-3 rounded-xl border border-border bg-surface p-4">
         <h2 id="offline-title" className="text-xl font-bold">

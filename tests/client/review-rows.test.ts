@@ -1,0 +1,71 @@
+/** The review table's filter, note search and value formatting (src/features/review/lib/review-rows.ts). */
+import { describe, expect, it } from 'vitest';
+import type { ReviewReading } from '@shared/schemas/review';
+import { EMPTY_FILTER, filterRows, syncText, valueText } from '@/features/review/lib/review-rows';
+
+let n = 0;
+function reading(over: Partial<ReviewReading> = {}): ReviewReading {
+  n += 1;
+  return {
+    id: `00000000-0000-7000-8000-${String(n).padStart(12, '0')}`,
+    kind: 'field_reading',
+    revision: 1,
+    stationId: '00000000-0000-7000-8000-0000000000aa',
+    stationLabel: `S${n}`,
+    levelId: '00000000-0000-7000-8000-0000000000b1',
+    levelName: 'Basement',
+    roomId: null,
+    roomName: null,
+    surveyorUserId: '00000000-0000-7000-8000-0000000000c1',
+    surveyorName: 'Ada Surveyor',
+    instrumentId: null,
+    instrumentLabel: null,
+    calibrationDueOn: null,
+    calibrationOverdue: false,
+    measuredAt: '2026-11-17T09:00:00.000Z',
+    fieldT: 0.5e-3,
+    enteredUnit: 'mT',
+    sweep: null,
+    safetyClass: { index: 0, label: 'Implant line' },
+    notes: null,
+    conflicted: false,
+    attachmentPending: false,
+    decision: null,
+    ...over,
+  };
+}
+
+describe('review rows', () => {
+  const rows = [
+    reading({ notes: 'Probe resting on the steel trolley' }),
+    reading({ notes: 'Café door, re-zeroed', decision: { id: '00000000-0000-7000-8000-0000000000d1', verdict: 'remeasure', note: 'Repeat away from the frame', reviewerUserId: '00000000-0000-7000-8000-0000000000c2', reviewerName: 'R', decidedAt: '2026-11-18T09:00:00.000Z', revision: 1 } }),
+    reading({ kind: 'sweep', fieldT: null, safetyClass: null, enteredUnit: null, sweep: { startHz: 2.3e9, stopHz: 2.6e9, peakCount: 2, strongestPeakDbm: -27.5 }, conflicted: true }),
+  ];
+
+  it('finds every word of the search in the notes, in any order, ignoring case and accents', () => {
+    expect(filterRows(rows, { ...EMPTY_FILTER, search: 'trolley STEEL' }).map((r) => r.id)).toEqual([rows[0]!.id]);
+    expect(filterRows(rows, { ...EMPTY_FILTER, search: 'cafe' }).map((r) => r.id)).toEqual([rows[1]!.id]);
+    // The decision's note is searched too.
+    expect(filterRows(rows, { ...EMPTY_FILTER, search: 'frame' }).map((r) => r.id)).toEqual([rows[1]!.id]);
+    expect(filterRows(rows, { ...EMPTY_FILTER, search: 'trolley cafe' })).toEqual([]);
+  });
+
+  it('filters by decision, kind, sync state and class', () => {
+    expect(filterRows(rows, { ...EMPTY_FILTER, decision: 'undecided' })).toHaveLength(2);
+    expect(filterRows(rows, { ...EMPTY_FILTER, decision: 'remeasure' })).toEqual([rows[1]]);
+    expect(filterRows(rows, { ...EMPTY_FILTER, kind: 'sweep' })).toEqual([rows[2]]);
+    expect(filterRows(rows, { ...EMPTY_FILTER, sync: 'conflicted' })).toEqual([rows[2]]);
+    expect(filterRows(rows, { ...EMPTY_FILTER, sync: 'clean' })).toHaveLength(2);
+    expect(filterRows(rows, { ...EMPTY_FILTER, minClassIndex: 0 })).toHaveLength(2);
+    expect(filterRows(rows, { ...EMPTY_FILTER, minClassIndex: 1 })).toEqual([]);
+  });
+
+  it('shows |B| in the chosen unit (1 G = 10⁻⁴ T, BIPM SI Brochure 9th ed., table 9) and a sweep’s span', () => {
+    expect(valueText(rows[0]!, 'mT')).toBe('0.5000 mT');
+    expect(valueText(rows[0]!, 'G')).toBe('5.000 G');
+    expect(valueText(rows[0]!, 'µT')).toBe('500.0 µT');
+    expect(valueText(rows[2]!, 'mT')).toBe('2.300 GHz – 2.600 GHz · 2 peaks');
+    expect(syncText(rows[2]!)).toBe('Conflict');
+    expect(syncText({ ...rows[0]!, attachmentPending: true })).toBe('Photo missing');
+  });
+});
