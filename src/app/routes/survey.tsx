@@ -36,6 +36,8 @@ const OFFLINE_ROLES: readonly Role[] = ['surveyor', 'reviewer', 'admin'];
 const MAP_ROLES: readonly Role[] = ['admin', 'reviewer', 'emc', 'surveyor'];
 /** Who sees the review link (the review routes admit reviewers and admins). */
 const REVIEW_LINK_ROLES: readonly Role[] = ['admin', 'reviewer'];
+/** Who sees the EMC check link (every member may read it; these are the ones it is for). */
+const EMC_LINK_ROLES: readonly Role[] = ['admin', 'reviewer', 'emc'];
 
 const STATE_LABELS = { open: 'Open', submitted: 'Submitted for review', signed_off: 'Signed off' } as const;
 
@@ -184,6 +186,11 @@ export default function SurveyRoute() {
       {REVIEW_LINK_ROLES.includes(membership.role) && (
         <Link to={`/surveys/${surveyId}/review`} className="inline-flex min-h-touch items-center self-start font-bold" data-testid="open-review">
           Review and sign off
+        </Link>
+      )}
+      {EMC_LINK_ROLES.includes(membership.role) && (
+        <Link to={`/surveys/${surveyId}/emc`} className="inline-flex min-h-touch items-center self-start font-bold" data-testid="open-emc">
+          EMC check: lines in watched bands
         </Link>
       )}
       <Link to={`/surveys/${surveyId}/report`} className="inline-flex min-h-touch items-center self-start font-bold" data-testid="open-survey-report">

@@ -81,7 +81,7 @@ export function FlagCard({
       {e ? (
         <dl className="grid grid-cols-1 gap-x-4 gap-y-1 text-sm sm:grid-cols-2" data-testid="flag-emission">
           <dt className="text-fg-muted">Emitted by {d.emitters.join(', ')}</dt>
-          <dd className="font-bold">{formatPower(e.emittedPowerW, { unit: 'W', significantDigits: 3 })} at {formatFluxDensity(e.fieldT, { significantDigits: 3 })}</dd>
+          <dd className="font-bold">{sci(e.emittedPowerW, 'W')} ({formatPower(e.emittedPowerW, { unit: 'dBm', significantDigits: 3 })}) at {formatFluxDensity(e.fieldT, { significantDigits: 3 })}</dd>
           <dt className="text-fg-muted">Flux density {e.victimDistanceM} m away</dt>
           <dd className="font-bold">{sci(e.fluxDensityWPerM2, 'W/m²')}</dd>
           <dt className="text-fg-muted">Spread over the line</dt>
