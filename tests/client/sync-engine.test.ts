@@ -132,6 +132,20 @@ beforeEach(async () => {
   await takeSurveyOffline({ orgId, surveyId });
 });
 
+/** Resolves once the organisation's change counter has not moved for two seconds (no write in flight). */
+async function waitForQuietServer() {
+  const counter = async () => (await sql<{ change_seq: string }>(server.databaseUrl, `SELECT change_seq::text FROM organisations WHERE id = $1`, [orgId]))[0]!.change_seq;
+  let last = await counter();
+  for (let quietSince = Date.now(); Date.now() - quietSince < 2_000; ) {
+    await new Promise((r) => setTimeout(r, 250));
+    const now = await counter();
+    if (now !== last) {
+      last = now;
+      quietSince = Date.now();
+    }
+  }
+}
+
 describe('push', () => {
   it('drains N outbox entries in batches, marks every record synced with the server’s revision, and reports "pushing k of n"', async () => {
     const { readings, station } = await logReadings(45);
@@ -351,6 +365,9 @@ describe('scheduling and faults', () => {
   });
 
   it('when the server goes away between two pull pages, the next run resumes from the stored cursor with no gap', async () => {
+    // Earlier tests' pushes leave repeat-group recomputations pending on the server (debounced, they
+    // write flags a second or so later): let them land first, so both devices below see the same data.
+    await waitForQuietServer();
     const phone = await device('phone');
     let stopped = false;
     const engine = createSyncEngine({
