@@ -5,7 +5,7 @@
  * cyclotron radiation law P = 6.21e-28 B² nₑ Tₑ W/cm³ (B in gauss, n in cm⁻³, T in eV), converted to SI.
  */
 import { describe, expect, it } from 'vitest';
-import { bandHits, emissionAtVictim, expandedRelativeUncertainty, predictedBands, roomFieldInterval } from './room-lines';
+import { atVictim, bandHits, emissionAtVictim, expandedRelativeUncertainty, predictedBands, REFERENCE_ANALYSER, roomFieldInterval } from './room-lines';
 
 const E = 1.602176634e-19;
 const ME = 9.1093837015e-31;
@@ -92,5 +92,32 @@ describe('emissionAtVictim', () => {
     expect(emissionAtVictim({ line: { ...fundamental, harmonic: 2 }, emitters: [emitter], fieldT: 0.1, victimDistanceM: 5, thresholdDbWPerM2Hz: null })).toBeNull();
     expect(emissionAtVictim({ line: { ...fundamental, species: 'proton' }, emitters: [emitter], fieldT: 0.1, victimDistanceM: 5, thresholdDbWPerM2Hz: null })).toBeNull();
     expect(emissionAtVictim({ line: fundamental, emitters: [], fieldT: 0.1, victimDistanceM: 5, thresholdDbWPerM2Hz: null })).toBeNull();
+  });
+});
+
+describe('atVictim', () => {
+  it('received power on the reference analyser against its noise floor, worked by hand', () => {
+    // 1 µW isotropic at 10 m: S = 1e-6 / (4π·100) W/m². A 0 dBi antenna at the line's centre
+    // f = √(2.4e9·2.5e9) Hz has Aₑ = λ²/(4π), λ = c/f with c = 299 792 458 m/s (SI, exact) (Balanis,
+    // "Effective aperture"); a 100 kHz RBW takes 1e5/1e8 of a line 100 MHz wide. Noise floor
+    // −150 dBm/Hz + 10·log₁₀(1e5) = −100 dBm.
+    const S = 1e-6 / (4 * Math.PI * 100);
+    const lambda = 299792458 / Math.sqrt(2.4e9 * 2.5e9);
+    const receivedW = S * ((lambda * lambda) / (4 * Math.PI)) * (1e5 / 1e8);
+    const out = atVictim(1e-6, 0.0875, { lowHz: 2.4e9, highHz: 2.5e9 }, 10, null);
+    expect(REFERENCE_ANALYSER).toEqual({ danlDbmPerHz: -150, rbwHz: 100e3, antennaGainDbi: 0 });
+    expect(out.receivedInRbwDbm).toBeCloseTo(10 * Math.log10(receivedW / 1e-3), 9);
+    expect(out.receivedInRbwDbm).toBeCloseTo(-120.23, 2);
+    expect(out.analyserNoiseFloorDbm).toBeCloseTo(-100, 12);
+    expect(out.noiseMarginDb).toBeCloseTo(out.receivedInRbwDbm + 100, 12);
+    expect(out.marginDb).toBeNull();
+  });
+
+  it('a line narrower than the RBW falls wholly inside it', () => {
+    const narrow = atVictim(1e-6, 0.1, { lowHz: 2.45e9, highHz: 2.45e9 + 1e3 }, 10, null);
+    const S = 1e-6 / (4 * Math.PI * 100);
+    const f = Math.sqrt(2.45e9 * (2.45e9 + 1e3));
+    const lambda = 299792458 / f;
+    expect(narrow.receivedInRbwDbm).toBeCloseTo(10 * Math.log10((S * lambda * lambda) / (4 * Math.PI) / 1e-3), 9);
   });
 });

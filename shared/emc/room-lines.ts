@@ -13,10 +13,12 @@
  * - For a room with a plasma emitter, the power of the fundamental electron line (Larmor, per-volume
  *   law of shared/physics/emission.ts, at the room's highest field: the worst case), its power flux
  *   density at a victim distance (inverse square, isotropic, far field) and, spread over the predicted
- *   band, its spectral flux density against the watch band's threshold. Harmonics n ≥ 2 radiate weaker
+ *   band, its spectral flux density against the watch band's threshold, and what a reference analyser
+ *   at the victim would receive in one RBW against its noise floor. Harmonics n ≥ 2 radiate weaker
  *   by about (v⊥/c)^(2(n−1)) and are not estimated.
  */
 import { ELECTRON_VOLT_J } from '../physics/constants';
+import { displayedNoiseFloorDbm, effectiveApertureM2, wattsToDbm } from '../physics/analyser';
 import { bandOverlap } from '../physics/bands';
 import { isotropicFluxDensityWPerM2, perVolumeEmissionWPerM3 } from '../physics/emission';
 import { cyclotronFrequencyHz } from '../physics/lines';
@@ -28,6 +30,13 @@ export const EMC_COVERAGE_FACTOR_K = 2;
 export const EMC_DEFAULT_RELATIVE_STANDARD_UNCERTAINTY = 0.02;
 /** Distance to the victim receiver used when none is chosen, m (a room or two away; common practice). */
 export const DEFAULT_VICTIM_DISTANCE_M = 10;
+/**
+ * The analyser a flag is compared with when its band names no threshold: displayed average noise level
+ * −150 dBm/Hz (a general-purpose analyser without preamplifier; recalled from memory, typical data-sheet
+ * figures are −145 to −155 dBm/Hz), at a 100 kHz resolution bandwidth (common practice for a survey
+ * sweep), with an isotropic 0 dBi antenna at the victim.
+ */
+export const REFERENCE_ANALYSER = Object.freeze({ danlDbmPerHz: -150, rbwHz: 100e3, antennaGainDbi: 0 });
 
 export interface RoomReading {
   fieldT: number;
@@ -131,6 +140,41 @@ export interface EmissionAtVictim {
   thresholdDbWPerM2Hz: number | null;
   /** spectral − threshold, dB: above 0 the band's threshold is exceeded at the victim. */
   marginDb: number | null;
+  /** What the reference analyser (REFERENCE_ANALYSER) would receive in one RBW at the victim, dBm. */
+  receivedInRbwDbm: number;
+  /** Its displayed noise floor at that RBW, dBm. */
+  analyserNoiseFloorDbm: number;
+  /** received − noise floor, dB: above 0 the line would stand out on the analyser. */
+  noiseMarginDb: number;
+}
+
+/**
+ * The victim-dependent figures for an emitted power: S = P/(4πd²) (Balanis ch. 2), spread evenly over
+ * the predicted band; against the band's threshold; and received by the reference analyser through an
+ * antenna of effective aperture Gλ²/(4π) at the line's centre, in one RBW (all of it when the line is
+ * narrower), against its noise floor DANL + 10·log₁₀(RBW/1 Hz).
+ */
+export function atVictim(emittedPowerW: number, fieldT: number, line: Pick<PredictedBand, 'lowHz' | 'highHz'>, victimDistanceM: number, thresholdDbWPerM2Hz: number | null): EmissionAtVictim {
+  const fluxDensityWPerM2 = isotropicFluxDensityWPerM2(emittedPowerW, victimDistanceM);
+  const widthHz = Math.max(line.highHz - line.lowHz, 1);
+  const spectralFluxDensityDbWPerM2Hz = 10 * Math.log10(fluxDensityWPerM2 / widthHz);
+  const centreHz = Math.sqrt(line.lowHz * line.highHz);
+  const { danlDbmPerHz, rbwHz, antennaGainDbi } = REFERENCE_ANALYSER;
+  const receivedW = fluxDensityWPerM2 * effectiveApertureM2(centreHz, antennaGainDbi) * Math.min(1, rbwHz / widthHz);
+  const receivedInRbwDbm = receivedW > 0 ? wattsToDbm(receivedW) : Number.NEGATIVE_INFINITY;
+  const analyserNoiseFloorDbm = displayedNoiseFloorDbm(danlDbmPerHz, rbwHz);
+  return {
+    fieldT,
+    emittedPowerW,
+    victimDistanceM,
+    fluxDensityWPerM2,
+    spectralFluxDensityDbWPerM2Hz,
+    thresholdDbWPerM2Hz,
+    marginDb: thresholdDbWPerM2Hz === null ? null : spectralFluxDensityDbWPerM2Hz - thresholdDbWPerM2Hz,
+    receivedInRbwDbm,
+    analyserNoiseFloorDbm,
+    noiseMarginDb: receivedInRbwDbm - analyserNoiseFloorDbm,
+  };
 }
 
 /**
@@ -155,16 +199,5 @@ export function emissionAtVictim(input: {
     });
     emittedPowerW += powerPerVolumeWPerM3 * e.volumeM3;
   }
-  const fluxDensityWPerM2 = isotropicFluxDensityWPerM2(emittedPowerW, input.victimDistanceM);
-  const widthHz = Math.max(input.line.highHz - input.line.lowHz, 1);
-  const spectralFluxDensityDbWPerM2Hz = 10 * Math.log10(fluxDensityWPerM2 / widthHz);
-  return {
-    fieldT: input.fieldT,
-    emittedPowerW,
-    victimDistanceM: input.victimDistanceM,
-    fluxDensityWPerM2,
-    spectralFluxDensityDbWPerM2Hz,
-    thresholdDbWPerM2Hz: input.thresholdDbWPerM2Hz,
-    marginDb: input.thresholdDbWPerM2Hz === null ? null : spectralFluxDensityDbWPerM2Hz - input.thresholdDbWPerM2Hz,
-  };
+  return atVictim(emittedPowerW, input.fieldT, input.line, input.victimDistanceM, input.thresholdDbWPerM2Hz);
 }

@@ -13,6 +13,10 @@ export const EmissionAtVictimSchema = z.object({
   spectralFluxDensityDbWPerM2Hz: z.number(),
   thresholdDbWPerM2Hz: z.number().nullable(),
   marginDb: z.number().nullable(),
+  /** The reference analyser at the victim (shared/emc/room-lines.ts REFERENCE_ANALYSER). */
+  receivedInRbwDbm: z.number(),
+  analyserNoiseFloorDbm: z.number(),
+  noiseMarginDb: z.number(),
 });
 
 export const EmcFlagDetailsSchema = z.object({

@@ -86,6 +86,9 @@ describe('the demo survey', () => {
     const far = (await listFlags(emc, '?victimDistanceM=50')).find((f) => f.id === near.id)!;
     expect(near.details.emission!.fluxDensityWPerM2 / far.details.emission!.fluxDensityWPerM2).toBeCloseTo(100, 9);
     expect(near.details.emission!.spectralFluxDensityDbWPerM2Hz - far.details.emission!.spectralFluxDensityDbWPerM2Hz).toBeCloseTo(20, 9);
+    // And on the reference analyser: 20 dB less received, the same noise floor.
+    expect(near.details.emission!.receivedInRbwDbm - far.details.emission!.receivedInRbwDbm).toBeCloseTo(20, 9);
+    expect(near.details.emission!.analyserNoiseFloorDbm).toBeCloseTo(-100, 9);
     expectError(await emc.agent.get(flagsUrl('?victimDistanceM=-3')), 400, 'VALIDATION_FAILED');
   });
 

@@ -14,6 +14,7 @@
  */
 import { BUILT_IN_SPECIES, type BuiltInSpeciesId } from '../../../shared/physics/species';
 import {
+  atVictim,
   bandHits,
   DEFAULT_VICTIM_DISTANCE_M,
   emissionAtVictim,
@@ -23,7 +24,6 @@ import {
   type FieldInterval,
   type PredictedBand,
 } from '../../../shared/emc/room-lines';
-import { isotropicFluxDensityWPerM2 } from '../../../shared/physics/emission';
 import type { EmcFlag, EmcFlagDetails, EmcRoom } from '../../../shared/schemas/emc';
 import type { AuditContext } from '../../lib/audit-context';
 import { AppError, notFound } from '../../lib/errors';
@@ -141,19 +141,13 @@ export function createEmcService(deps: { repo: EmcRepository; mailer: Mailer; pu
 
   function view(row: FlagRow, victimDistanceM: number): EmcFlag {
     const details = row.details as unknown as EmcFlagDetails;
-    let emission: EmissionAtVictim | null = details.emission ?? null;
-    if (emission && victimDistanceM !== emission.victimDistanceM) {
-      const fluxDensityWPerM2 = isotropicFluxDensityWPerM2(emission.emittedPowerW, victimDistanceM);
-      const widthHz = Math.max(details.lineHighHz - details.lineLowHz, 1);
-      const spectral = 10 * Math.log10(fluxDensityWPerM2 / widthHz);
-      emission = {
-        ...emission,
-        victimDistanceM,
-        fluxDensityWPerM2,
-        spectralFluxDensityDbWPerM2Hz: spectral,
-        marginDb: emission.thresholdDbWPerM2Hz === null ? null : spectral - emission.thresholdDbWPerM2Hz,
-      };
-    }
+    // Flags stored before the analyser comparison existed, or a different distance: work it out again.
+    const stored = details.emission;
+    const emission: EmissionAtVictim | null = stored
+      ? victimDistanceM === stored.victimDistanceM && stored.noiseMarginDb !== undefined
+        ? stored
+        : atVictim(stored.emittedPowerW, stored.fieldT, { lowHz: details.lineLowHz, highHz: details.lineHighHz }, victimDistanceM, stored.thresholdDbWPerM2Hz)
+      : null;
     return {
       id: row.id,
       surveyId: row.surveyId,

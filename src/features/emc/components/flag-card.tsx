@@ -1,6 +1,7 @@
 import { useId, useState } from 'react';
 import { Link } from 'react-router-dom';
 import type { EmcFlag } from '@shared/schemas/emc';
+import { REFERENCE_ANALYSER } from '@shared/emc/room-lines';
 import { formatFluxDensity, formatFrequency, formatPower } from '@shared/units';
 import { Button } from '@/components/button';
 import { isApiRequestError } from '@/lib/api';
@@ -89,10 +90,15 @@ export function FlagCard({
           <dt className="text-fg-muted">Against the band’s threshold</dt>
           <dd className="font-bold">
             {e.marginDb === null
-              ? 'The band names no threshold: compare with your receiver’s noise floor'
+              ? 'The band names no threshold (see the analyser below)'
               : e.marginDb > 0
                 ? `${e.marginDb.toFixed(1)} dB above ${e.thresholdDbWPerM2Hz} dB(W/(m²·Hz))`
                 : `${(-e.marginDb).toFixed(1)} dB below ${e.thresholdDbWPerM2Hz} dB(W/(m²·Hz))`}
+          </dd>
+          <dt className="text-fg-muted">On an analyser there (0 dBi, RBW {REFERENCE_ANALYSER.rbwHz / 1e3} kHz, noise {REFERENCE_ANALYSER.danlDbmPerHz} dBm/Hz)</dt>
+          <dd className="font-bold">
+            {e.receivedInRbwDbm.toFixed(1)} dBm against a floor of {e.analyserNoiseFloorDbm.toFixed(1)} dBm:{' '}
+            {e.noiseMarginDb > 0 ? `${e.noiseMarginDb.toFixed(1)} dB above the noise, visible` : `${(-e.noiseMarginDb).toFixed(1)} dB below the noise`}
           </dd>
         </dl>
       ) : (
