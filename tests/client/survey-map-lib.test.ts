@@ -7,8 +7,8 @@
 import Color from 'color';
 import { describe, expect, it } from 'vitest';
 import { pixelToPlanM } from '@shared/plans/calibration';
-import { decadeTicks, fieldColour, fieldDomainFor, NO_READING_COLOUR, rampColour } from '@/features/survey-map/lib/colour-scale';
-import { planBoundsM, pointsBoundsM } from '@/features/survey-map/lib/plan-frame';
+import { decadeTicks, fieldColour, fieldDomainFor, NO_READING_COLOUR, rampColour } from '@/lib/colour-scale';
+import { planImageBoundsM, pointsBoundsM } from '@/lib/plan-frame';
 import { fieldLabel } from '@/features/survey-map/lib/units';
 
 const lab = (hex: string) => {
@@ -51,7 +51,7 @@ describe('legend labels', () => {
 describe('the plan frame in metres', () => {
   it('puts the image corners where the calibration puts them', () => {
     const plan = { widthPx: 1200, heightPx: 800, metresPerPixel: 0.025, originXPx: 100, originYPx: 700 };
-    const { bounds, calibrated } = planBoundsM(plan);
+    const { bounds, calibrated } = planImageBoundsM(plan);
     const topLeft = pixelToPlanM({ xPx: 0, yPx: 0 }, { ...plan, northAngleDeg: 0 });
     const bottomRight = pixelToPlanM({ xPx: 1200, yPx: 800 }, { ...plan, northAngleDeg: 0 });
     expect(calibrated).toBe(true);
@@ -59,7 +59,7 @@ describe('the plan frame in metres', () => {
     expect(bounds[0][1]).toBeCloseTo(topLeft.xM, 12); // west
     expect(bounds[1][0]).toBeCloseTo(topLeft.yM, 12); // north
     expect(bounds[1][1]).toBeCloseTo(bottomRight.xM, 12); // east
-    expect(planBoundsM({ ...plan, metresPerPixel: null }).calibrated).toBe(false);
+    expect(planImageBoundsM({ ...plan, metresPerPixel: null }).calibrated).toBe(false);
   });
 
   it('bounds scattered points with a margin, and nothing for no points', () => {

@@ -38,7 +38,7 @@ import {
   type WalkEntry,
 } from '../data';
 import { isCalibrationOverdue, localDate } from '../lib/calibration';
-import { fieldDomainFor } from '../lib/colour-scale';
+import { fieldDomainFor } from '@/lib/colour-scale';
 import type { FeedbackSettings } from '../lib/feedback';
 import { emptyReadingForm, readingToForm, type FieldUnit, type ParsedReading, type ReadingFormValues } from '../lib/reading-form';
 import { emptySweepForm, sweepToForm, type ParsedSweep, type SweepFormValues } from '../lib/sweep-form';

@@ -1,6 +1,6 @@
 import { memo } from 'react';
 import { fromSi } from '@shared/units';
-import { decadeTicks, fieldPosition, NO_READING_COLOUR, rampGradientCss, type FieldDomain } from '../lib/colour-scale';
+import { decadeTicks, fieldPosition, NO_READING_COLOUR, rampGradientCss, type FieldDomain } from '@/lib/colour-scale';
 import type { FieldUnit } from '../lib/reading-form';
 
 /** A decade in the surveyor's unit as plain digits ("0.01 mT", "100 mT"), never exponent notation for the usual range. */

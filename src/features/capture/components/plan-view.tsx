@@ -12,9 +12,9 @@ import L from 'leaflet';
 import { memo, useEffect, useMemo, useRef } from 'react';
 import { ImageOverlay, MapContainer, Marker, Polygon, Polyline, useMap, useMapEvents } from 'react-leaflet';
 import { useTheme } from '@/lib/theme';
-import { fieldPosition, NO_READING_COLOUR, rampColour, type FieldDomain } from '../lib/colour-scale';
+import { fieldPosition, NO_READING_COLOUR, rampColour, type FieldDomain } from '@/lib/colour-scale';
 import { nearestWithin, TAP_RADIUS_PX } from '../lib/hit-test';
-import { planImageBoundsM, type PlanCalibrationInput } from '../lib/plan-frame';
+import { planImageBoundsM, type PlanCalibrationInput } from '@/lib/plan-frame';
 
 export interface PlanStation {
   id: string;

@@ -13,8 +13,8 @@ import L from 'leaflet';
 import { Fragment, memo, useEffect, useMemo, useRef } from 'react';
 import { CircleMarker, ImageOverlay, MapContainer, Polygon, Polyline, Tooltip, useMap, useMapEvents } from 'react-leaflet';
 import type { LevelMap, MapContour, MapStation } from '@shared/schemas/survey-map';
-import { fieldColour, fieldPosition, rampColour, type FieldDomain } from '../lib/colour-scale';
-import { planBoundsM, pointsBoundsM, type MetreBounds } from '../lib/plan-frame';
+import { fieldColour, fieldPosition, rampColour, type FieldDomain } from '@/lib/colour-scale';
+import { planImageBoundsM, pointsBoundsM, type MetreBounds } from '@/lib/plan-frame';
 import { fieldLabel, type MapFieldUnit } from '../lib/units';
 
 export interface MapLayers {
@@ -159,7 +159,7 @@ function ContourLabels({ contour, unit, className }: { contour: MapContour; unit
 export const MapCanvas = memo(function MapCanvas(props: MapCanvasProps) {
   const { level, layers, domain, unit, thresholdsT, earlierContours, theme, printable } = props;
   const plan = level.plan;
-  const frame = plan ? planBoundsM(plan) : null;
+  const frame = plan ? planImageBoundsM(plan) : null;
   const bounds: MetreBounds =
     frame?.bounds ??
     pointsBoundsM([...level.stations.map((s) => [s.xM, s.yM] as const), ...level.rooms.flatMap((r) => r.polygon.map(([x, y]) => [x, y] as const))], 2) ?? [

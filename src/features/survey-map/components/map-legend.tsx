@@ -1,5 +1,5 @@
 import type { SurveyMap } from '@shared/schemas/survey-map';
-import { decadeTicks, fieldPosition, NO_READING_COLOUR, rampGradientCss, type FieldDomain } from '../lib/colour-scale';
+import { decadeTicks, fieldPosition, NO_READING_COLOUR, rampGradientCss, type FieldDomain } from '@/lib/colour-scale';
 import { fieldLabel, type MapFieldUnit } from '../lib/units';
 import { zoneColour } from './map-canvas';
 

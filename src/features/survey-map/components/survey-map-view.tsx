@@ -17,7 +17,7 @@ import { useTheme } from '@/lib/theme';
 import { useCompareCandidates } from '../data/get-compare-candidates';
 import { useSurveyCompare } from '../data/get-survey-compare';
 import { useSurveyMap } from '../data/get-survey-map';
-import { fieldDomainFor } from '../lib/colour-scale';
+import { fieldDomainFor } from '@/lib/colour-scale';
 import { fieldLabel, loadMapUnit, MAP_FIELD_UNITS, saveMapUnit, type MapFieldUnit } from '../lib/units';
 import { CompareTable } from './compare-table';
 import { DEFAULT_LAYERS, MapCanvas, type MapLayers } from './map-canvas';

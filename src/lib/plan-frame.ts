@@ -1,6 +1,7 @@
 /**
- * The plan view's coordinate frame: Leaflet's CRS.Simple with one map unit = one metre of the plan
- * frame (lat = y_m, lng = x_m), so stations, rooms and taps are all in plan metres with no conversion.
+ * The coordinate frame of the capture plan view and the survey map: Leaflet's CRS.Simple with one map
+ * unit = one metre of the plan frame (lat = y_m, lng = x_m), so stations, rooms, taps and contours are
+ * all in plan metres with no conversion.
  *
  * Plan calibration (server/db/schema/sites.ts): x_m = (x_px − origin_x)·mpp, y_m = (origin_y − y_px)·mpp,
  * image rows growing downwards. The image's corners therefore sit at
@@ -34,4 +35,23 @@ export function planImageBoundsM(plan: PlanCalibrationInput): { bounds: MetreBou
     ],
     calibrated,
   };
+}
+
+/** Bounds of a set of [x, y] points in plan metres, padded; null for none. */
+export function pointsBoundsM(points: Iterable<readonly [number, number]>, padM = 1): MetreBounds | null {
+  let minX = Infinity;
+  let minY = Infinity;
+  let maxX = -Infinity;
+  let maxY = -Infinity;
+  for (const [x, y] of points) {
+    if (x < minX) minX = x;
+    if (x > maxX) maxX = x;
+    if (y < minY) minY = y;
+    if (y > maxY) maxY = y;
+  }
+  if (!Number.isFinite(minX)) return null;
+  return [
+    [minY - padM, minX - padM],
+    [maxY + padM, maxX + padM],
+  ];
 }

@@ -1,5 +1,6 @@
 /**
- * The field colour scale of the plan view: |B| on a log axis mapped onto a ramp of our own, interpolated
+ * The field colour scale of the capture plan view and the survey map (one scale, so a station looks
+ * the same colour on both): |B| on a log axis mapped onto a ramp of our own, interpolated
  * in OKLab (B. Ottosson, "A perceptual color space for image processing", 2020) so equal steps of
  * log|B| look like equal steps of colour. Lightness rises monotonically from a deep indigo to a pale
  * yellow, so the order survives greyscale, dim screens and the common colour-vision deficiencies.
