@@ -1,9 +1,9 @@
 /**
  * Sweep trace files: rows of (frequency, level in dBm), comma, semicolon or tab separated, with an
  * optional header row whose first column may name the frequency unit ("Frequency (MHz)"); hertz
- * otherwise. The same format the capture form accepts for a sweep's trace (its own check lives in the
- * capture feature); this module reads the points themselves, for the server and for charts, and writes
- * the same format back out (the demo traces).
+ * otherwise. The capture form checks a sweep's trace with {@link readTraceRows}; the server and the
+ * charts read the points with {@link parseTraceCsv}; {@link traceToCsv} writes the same format back out
+ * (the demo traces).
  */
 import Papa from 'papaparse';
 
@@ -23,8 +23,15 @@ export interface Trace {
 
 export type TraceParse = { ok: true; trace: Trace; unit: TraceFrequencyUnit } | { ok: false; message: string };
 
-/** Reads a trace file; rows out of frequency order are sorted, repeated frequencies keep the last row. */
-export function parseTraceCsv(text: string): TraceParse {
+/**
+ * The rows of a trace file as (Hz, dBm) in file order, after the header (if any) and with every row
+ * checked; more than `maxRows` data rows is refused before any is read. The capture form's check and
+ * {@link parseTraceCsv} both read files through this.
+ */
+export function readTraceRows(
+  text: string,
+  maxRows = Infinity,
+): { ok: true; points: Array<[number, number]>; unit: TraceFrequencyUnit } | { ok: false; message: string } {
   const parsed = Papa.parse<string[]>(text, { skipEmptyLines: 'greedy' });
   const rows = parsed.data.filter((r) => r.some((c) => c.trim() !== ''));
   if (rows.length === 0) return { ok: false, message: 'The trace file is empty.' };
@@ -38,7 +45,7 @@ export function parseTraceCsv(text: string): TraceParse {
   }
   const count = rows.length - first;
   if (count === 0) return { ok: false, message: 'The trace file has a header but no data rows.' };
-  if (count > TRACE_MAX_POINTS) return { ok: false, message: `The trace has ${count} points; at most ${TRACE_MAX_POINTS} are read.` };
+  if (count > maxRows) return { ok: false, message: `The trace has ${count} points; at most ${maxRows} are read.` };
   const points: Array<[number, number]> = [];
   for (let i = first; i < rows.length; i++) {
     const row = rows[i] as string[];
@@ -49,7 +56,14 @@ export function parseTraceCsv(text: string): TraceParse {
     if (!Number.isFinite(level)) return { ok: false, message: `Row ${i + 1}: “${row[1]}” is not a level in dBm.` };
     points.push([f * UNIT_FACTOR[unit], level]);
   }
-  points.sort((a, b) => a[0] - b[0]);
+  return { ok: true, points, unit };
+}
+
+/** Reads a trace file; rows out of frequency order are sorted, repeated frequencies keep the last row. */
+export function parseTraceCsv(text: string): TraceParse {
+  const read = readTraceRows(text, TRACE_MAX_POINTS);
+  if (!read.ok) return read;
+  const points = read.points.sort((a, b) => a[0] - b[0]);
   const frequencyHz: number[] = [];
   const levelDbm: number[] = [];
   for (const [f, level] of points) {
@@ -59,7 +73,7 @@ export function parseTraceCsv(text: string): TraceParse {
       levelDbm.push(level);
     }
   }
-  return { ok: true, trace: { frequencyHz: Float64Array.from(frequencyHz), levelDbm: Float64Array.from(levelDbm) }, unit };
+  return { ok: true, trace: { frequencyHz: Float64Array.from(frequencyHz), levelDbm: Float64Array.from(levelDbm) }, unit: read.unit };
 }
 
 /** Writes a trace in the accepted format: a "Frequency (MHz),Level (dBm)" header, CRLF line ends. */

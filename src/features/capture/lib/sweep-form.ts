@@ -3,9 +3,9 @@
  * into the SI fields of a Sweep (shared/schemas/capture.ts), with a message per box; and the check of
  * an optional trace file (CSV of frequency and level), read with papaparse.
  */
-import Papa from 'papaparse';
 import { z } from 'zod';
 import { PeakMarkerSchema, SweepSchema } from '@shared/schemas/capture';
+import { readTraceRows } from '@shared/emc/trace-csv';
 import { DetectorSchema, type DETECTORS } from '@shared/schemas/vocabulary';
 import { parseDbmField, parseQuantityField } from './parse-quantity-field';
 
@@ -178,38 +178,19 @@ export type TraceCheck =
   | { ok: true; rows: number; minHz: number; maxHz: number; unit: FrequencyUnit }
   | { ok: false; message: string };
 
-const UNIT_FACTOR: Record<FrequencyUnit, number> = { Hz: 1, kHz: 1e3, MHz: 1e6, GHz: 1e9 };
-
 /**
  * Checks a trace file: rows of (frequency, level in dBm), comma/semicolon/tab separated, an optional
  * header row (whose first column may name the frequency unit, e.g. "Frequency (MHz)"; Hz otherwise).
+ * Read by shared/emc/trace-csv.ts, as the server reads it.
  */
 export function checkTraceCsv(text: string): TraceCheck {
-  const parsed = Papa.parse<string[]>(text, { skipEmptyLines: 'greedy' });
-  const rows = parsed.data.filter((r) => r.some((c) => c.trim() !== ''));
-  if (rows.length === 0) return { ok: false, message: 'The trace file is empty.' };
-  let unit: FrequencyUnit = 'Hz';
-  let first = 0;
-  const head = rows[0] as string[];
-  if (head.length > 0 && !Number.isFinite(Number(head[0]))) {
-    first = 1;
-    const match = /\b(GHz|MHz|kHz|Hz)\b/i.exec(head[0] ?? '');
-    if (match) unit = (FREQUENCY_UNITS.find((u) => u.toLowerCase() === (match[1] as string).toLowerCase()) ?? 'Hz') as FrequencyUnit;
-  }
+  const read = readTraceRows(text);
+  if (!read.ok) return read;
   let minHz = Infinity;
   let maxHz = -Infinity;
-  for (let i = first; i < rows.length; i++) {
-    const row = rows[i] as string[];
-    if (row.length < 2) return { ok: false, message: `Row ${i + 1} has ${row.length} column; a trace needs frequency and level.` };
-    const f = Number((row[0] as string).trim());
-    const level = Number((row[1] as string).trim());
-    if (!Number.isFinite(f) || f <= 0) return { ok: false, message: `Row ${i + 1}: “${row[0]}” is not a frequency above 0.` };
-    if (!Number.isFinite(level)) return { ok: false, message: `Row ${i + 1}: “${row[1]}” is not a level in dBm.` };
-    const hz = f * UNIT_FACTOR[unit];
+  for (const [hz] of read.points) {
     if (hz < minHz) minHz = hz;
     if (hz > maxHz) maxHz = hz;
   }
-  const count = rows.length - first;
-  if (count === 0) return { ok: false, message: 'The trace file has a header but no data rows.' };
-  return { ok: true, rows: count, minHz, maxHz, unit };
+  return { ok: true, rows: read.points.length, minHz, maxHz, unit: read.unit };
 }
