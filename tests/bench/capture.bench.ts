@@ -12,106 +12,26 @@
  *   canvas; goal ≤ 500 ms. Baseline: the same page with no stations on the level.
  * The 10,000 readings and 5,000 stations are invented (log-uniform |B| from a seeded PRNG).
  */
-import fs from 'node:fs';
-import http from 'node:http';
-import type { AddressInfo } from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { chromium, type CDPSession, type Page } from 'playwright-core';
-import { build } from 'vite';
-import { createApp } from '../../server/app';
-import { createDb } from '../../server/db/client';
-import { freePort, makeThrowawayDir, startLocalPostgres } from '../../server/db/local-postgres';
-import { runMigrations } from '../../server/db/migrate';
-import { seedDemo } from '../../server/db/seed/demo';
-import { seedDemoFiles } from '../../server/db/seed/demo-files';
-import { startLocalS3 } from '../../server/lib/local-s3';
-import { createLogger } from '../../server/lib/logger';
-import { createMailer } from '../../server/lib/mail';
-import { createStorage } from '../../server/lib/storage';
+import { buildBenchClient, CHROMIUM_ARGS, runCleanups, startBenchServer, type Cleanups } from './bench-app';
 import { BENCH_ROWS_MARKER, printTable, type BenchRow } from './harness';
 
-const root = fileURLToPath(new URL('../..', import.meta.url));
-const CHROMIUM_ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
 const SURVEY_NAME = '2026 annual fringe-field check';
 const SAVES = Number(process.env.BENCH_SAVES ?? 200);
 const STORED_READINGS = 10_000;
 const PLAN_STATIONS = 5_000;
 const PAINT_RUNS = 7;
 
-const cleanups: Array<() => Promise<void> | void> = [];
-async function cleanup() {
-  for (const step of cleanups.reverse()) {
-    try {
-      await step();
-    } catch {
-      // keep tearing down the rest
-    }
-  }
-}
+const cleanups: Cleanups = [];
+const cleanup = () => runCleanups(cleanups);
 
 function quantile(sorted: number[], q: number): number {
   const i = Math.min(sorted.length - 1, Math.max(0, Math.ceil(q * sorted.length) - 1));
   return sorted[i] as number;
 }
 const median = (xs: number[]) => quantile([...xs].sort((a, b) => a - b), 0.5);
-
-async function buildClient(): Promise<string> {
-  const outDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fringewalk-bench-client-'));
-  cleanups.push(() => fs.rmSync(outDir, { recursive: true, force: true }));
-  const nodeEnv = process.env.NODE_ENV;
-  process.env.NODE_ENV = 'production';
-  try {
-    await build({ root, configFile: path.join(root, 'vite.config.ts'), mode: 'production', logLevel: 'error', build: { outDir, emptyOutDir: true, sourcemap: false, ...(process.env.BENCH_PROFILE ? { minify: false } : {}) } });
-  } finally {
-    process.env.NODE_ENV = nodeEnv;
-  }
-  return outDir;
-}
-
-async function startServer(clientDir: string): Promise<string> {
-  const dataDir = makeThrowawayDir('fringewalk-bench-pg-');
-  const pgServer = await startLocalPostgres({ dataDir, port: await freePort(), database: 'fringewalk_bench', throwaway: true });
-  cleanups.push(async () => {
-    await pgServer.stop();
-    fs.rmSync(dataDir, { recursive: true, force: true });
-  });
-  await runMigrations(pgServer.url);
-  const { pool, db } = createDb(pgServer.url, { onIdleError: () => {} });
-  cleanups.push(() => pool.end());
-  await seedDemo(db);
-  const s3Dir = fs.mkdtempSync(path.join(os.tmpdir(), 'fringewalk-bench-s3-'));
-  const s3 = await startLocalS3({ directory: s3Dir, bucket: 'fringewalk-bench' });
-  const storage = createStorage(s3.storageOptions);
-  cleanups.push(async () => {
-    storage.close();
-    await s3.close();
-    fs.rmSync(s3Dir, { recursive: true, force: true });
-  });
-  await seedDemoFiles(db, storage);
-  const server = http.createServer();
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-  cleanups.push(() => new Promise<void>((resolve) => { server.close(() => resolve()); server.closeAllConnections(); }));
-  const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-  // No SMTP is needed: nothing here sends mail; the mailer points at a closed port.
-  const mailer = createMailer({ smtpUrl: 'smtp://127.0.0.1:9', from: 'bench <no-reply@fringewalk.invalid>' });
-  cleanups.push(() => mailer.close());
-  const { app, close } = createApp({
-    db,
-    pool,
-    logger: createLogger('silent'),
-    mailer,
-    storage,
-    publicUrl: baseUrl,
-    trustedOrigins: [baseUrl],
-    sessionSecret: 'bench-session-secret-that-is-long-enough-0123456789',
-    client: { dir: clientDir },
-  });
-  cleanups.push(close);
-  server.on('request', app);
-  return baseUrl;
-}
 
 /** In the page: raw IndexedDB helpers on the app's own database (no app code involved). */
 const PAGE_HELPERS = `
@@ -129,8 +49,8 @@ async function tapPlan(page: Page, fx: number, fy: number) {
 }
 
 async function main() {
-  const clientDir = await buildClient();
-  const baseUrl = await startServer(clientDir);
+  const clientDir = await buildBenchClient(cleanups);
+  const { baseUrl } = await startBenchServer(clientDir, cleanups, { files: true });
   const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: CHROMIUM_ARGS });
   cleanups.push(() => browser.close());
   const context = await browser.newContext({ viewport: { width: 390, height: 844 } });

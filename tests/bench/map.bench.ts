@@ -19,31 +19,14 @@
  * Compare numbers only within one run (STACK.md). `--rows` prints the machine line for `npm run bench`;
  * `--strict` exits non-zero when a goal is missed.
  */
-import fs from 'node:fs';
-import http from 'node:http';
-import type { AddressInfo } from 'node:net';
 import os from 'node:os';
-import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import pg from 'pg';
 import { chromium } from 'playwright-core';
 import { v7 as uuidv7 } from 'uuid';
-import { build } from 'vite';
-import { createApp } from '../../server/app';
-import { createDb } from '../../server/db/client';
-import { freePort, makeThrowawayDir, startLocalPostgres } from '../../server/db/local-postgres';
-import { runMigrations } from '../../server/db/migrate';
-import { seedDemo } from '../../server/db/seed/demo';
-import { seedDemoFiles } from '../../server/db/seed/demo-files';
-import { startLocalS3 } from '../../server/lib/local-s3';
-import { createLogger } from '../../server/lib/logger';
-import { createMailer } from '../../server/lib/mail';
-import { createStorage } from '../../server/lib/storage';
+import { buildBenchClient, CHROMIUM_ARGS, startBenchServer, type Cleanups } from './bench-app';
 import { BENCH_ROWS_MARKER, mulberry32, printTable, type BenchRow } from './harness';
 
-const root = fileURLToPath(new URL('../..', import.meta.url));
 const args = process.argv.slice(2);
-const CHROMIUM_ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
 const READINGS_PER_STATION = 4;
 const SIZES = [
   { readings: 10_000, coldGoalMs: 300, renderGoalMs: 1_500, runs: 5 },
@@ -54,73 +37,12 @@ const MB = 1024 * 1024;
 const MU0_OVER_4PI = 1.25663706212e-7;
 
 const step = (message: string) => console.error(`[bench:map] ${message}`);
-const cleanups: Array<() => Promise<void> | void> = [];
+const cleanups: Cleanups = [];
 const median = (xs: number[]) => {
   const s = [...xs].sort((a, b) => a - b);
   const mid = s.length >> 1;
   return s.length % 2 ? s[mid]! : (s[mid - 1]! + s[mid]!) / 2;
 };
-
-async function buildClient(): Promise<string> {
-  const outDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fringewalk-bench-client-'));
-  cleanups.push(() => fs.rmSync(outDir, { recursive: true, force: true }));
-  const nodeEnv = process.env.NODE_ENV;
-  process.env.NODE_ENV = 'production';
-  try {
-    await build({ root, configFile: path.join(root, 'vite.config.ts'), mode: 'production', logLevel: 'error', build: { outDir, emptyOutDir: true, sourcemap: false } });
-  } finally {
-    process.env.NODE_ENV = nodeEnv;
-  }
-  return outDir;
-}
-
-async function startServer(clientDir: string): Promise<{ baseUrl: string; databaseUrl: string }> {
-  const dataDir = makeThrowawayDir('fringewalk-bench-pg-');
-  const pgServer = await startLocalPostgres({ dataDir, port: await freePort(), database: 'fringewalk_bench', throwaway: true });
-  cleanups.push(async () => {
-    await pgServer.stop();
-    fs.rmSync(dataDir, { recursive: true, force: true });
-  });
-  await runMigrations(pgServer.url);
-  const { pool, db } = createDb(pgServer.url, { onIdleError: () => {} });
-  cleanups.push(() => pool.end());
-  await seedDemo(db);
-  const s3Dir = fs.mkdtempSync(path.join(os.tmpdir(), 'fringewalk-bench-s3-'));
-  const s3 = await startLocalS3({ directory: s3Dir, bucket: 'fringewalk-bench' });
-  const storage = createStorage(s3.storageOptions);
-  cleanups.push(async () => {
-    storage.close();
-    await s3.close();
-    fs.rmSync(s3Dir, { recursive: true, force: true });
-  });
-  await seedDemoFiles(db, storage);
-  const server = http.createServer();
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-  cleanups.push(
-    () =>
-      new Promise<void>((resolve) => {
-        server.close(() => resolve());
-        server.closeAllConnections();
-      }),
-  );
-  const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-  const mailer = createMailer({ smtpUrl: 'smtp://127.0.0.1:9', from: 'bench <no-reply@fringewalk.invalid>' });
-  cleanups.push(() => mailer.close());
-  const { app, close } = createApp({
-    db,
-    pool,
-    logger: createLogger('silent'),
-    mailer,
-    storage,
-    publicUrl: baseUrl,
-    trustedOrigins: [baseUrl],
-    sessionSecret: 'bench-session-secret-that-is-long-enough-0123456789',
-    client: { dir: clientDir },
-  });
-  cleanups.push(close);
-  server.on('request', app);
-  return { baseUrl, databaseUrl: pgServer.url };
-}
 
 interface Level {
   levelId: string;
@@ -268,9 +190,9 @@ async function signIn(baseUrl: string, email: string): Promise<string> {
 
 async function main(): Promise<BenchRow[]> {
   step('building the client…');
-  const clientDir = await buildClient();
+  const clientDir = await buildBenchClient(cleanups);
   step('starting PostgreSQL and the server…');
-  const { baseUrl, databaseUrl } = await startServer(clientDir);
+  const { baseUrl, databaseUrl } = await startBenchServer(clientDir, cleanups, { files: true });
   const raw = new pg.Client({ connectionString: databaseUrl });
   await raw.connect();
   cleanups.push(() => raw.end());

@@ -10,93 +10,19 @@
  * Baseline: the same scroll, in the same page, of a plain element of the same height with nothing in
  * it — the browser's own frame cadence.
  */
-import fs from 'node:fs';
-import http from 'node:http';
-import type { AddressInfo } from 'node:net';
 import os from 'node:os';
-import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import pg from 'pg';
 import { chromium, type Page } from 'playwright-core';
-import { build } from 'vite';
-import { createApp } from '../../server/app';
-import { createDb } from '../../server/db/client';
-import { freePort, makeThrowawayDir, startLocalPostgres } from '../../server/db/local-postgres';
-import { runMigrations } from '../../server/db/migrate';
-import { seedDemo } from '../../server/db/seed/demo';
-import { createLogger } from '../../server/lib/logger';
-import { createMailer } from '../../server/lib/mail';
+import { buildBenchClient, CHROMIUM_ARGS, runCleanups, startBenchServer, type Cleanups } from './bench-app';
 import { BENCH_ROWS_MARKER, mulberry32, printTable, type BenchRow } from './harness';
 
-const root = fileURLToPath(new URL('../..', import.meta.url));
-const CHROMIUM_ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
 const ROWS = Number(process.env.BENCH_REVIEW_ROWS ?? 100_000);
 /** Animation frames the scroll from top to bottom takes (each frame jumps about ROWS / FRAMES rows). */
 const FRAMES = Number(process.env.BENCH_REVIEW_FRAMES ?? 600);
 const RUNS = 3;
 
-const cleanups: Array<() => Promise<void> | void> = [];
-async function cleanup() {
-  for (const step of cleanups.reverse()) {
-    try {
-      await step();
-    } catch {
-      // keep tearing down the rest
-    }
-  }
-}
-
-async function buildClient(): Promise<string> {
-  const outDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fringewalk-bench-client-'));
-  cleanups.push(() => fs.rmSync(outDir, { recursive: true, force: true }));
-  const nodeEnv = process.env.NODE_ENV;
-  process.env.NODE_ENV = 'production';
-  try {
-    await build({ root, configFile: path.join(root, 'vite.config.ts'), mode: 'production', logLevel: 'error', build: { outDir, emptyOutDir: true, sourcemap: false, ...(process.env.BENCH_PROFILE ? { minify: false } : {}) } });
-  } finally {
-    process.env.NODE_ENV = nodeEnv;
-  }
-  return outDir;
-}
-
-async function startServer(clientDir: string): Promise<{ baseUrl: string; databaseUrl: string }> {
-  const dataDir = makeThrowawayDir('fringewalk-bench-pg-');
-  const pgServer = await startLocalPostgres({ dataDir, port: await freePort(), database: 'fringewalk_bench', throwaway: true });
-  cleanups.push(async () => {
-    await pgServer.stop();
-    fs.rmSync(dataDir, { recursive: true, force: true });
-  });
-  await runMigrations(pgServer.url);
-  const { pool, db } = createDb(pgServer.url, { onIdleError: () => {} });
-  cleanups.push(() => pool.end());
-  await seedDemo(db);
-  const server = http.createServer();
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-  cleanups.push(
-    () =>
-      new Promise<void>((resolve) => {
-        server.close(() => resolve());
-        server.closeAllConnections();
-      }),
-  );
-  const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-  // Nothing here sends mail; the mailer points at a closed port.
-  const mailer = createMailer({ smtpUrl: 'smtp://127.0.0.1:9', from: 'bench <no-reply@fringewalk.invalid>' });
-  cleanups.push(() => mailer.close());
-  const { app, close } = createApp({
-    db,
-    pool,
-    logger: createLogger('silent'),
-    mailer,
-    publicUrl: baseUrl,
-    trustedOrigins: [baseUrl],
-    sessionSecret: 'bench-session-secret-that-is-long-enough-0123456789',
-    client: { dir: clientDir },
-  });
-  cleanups.push(close);
-  server.on('request', app);
-  return { baseUrl, databaseUrl: pgServer.url };
-}
+const cleanups: Cleanups = [];
+const cleanup = () => runCleanups(cleanups);
 
 /** ROWS invented readings in the open demo survey, with change sequences reserved as every writer does. */
 async function addReadings(databaseUrl: string): Promise<string> {
@@ -151,8 +77,8 @@ function scrollFrames(page: Page, selector: string, frames: number): Promise<num
 }
 
 async function main() {
-  const clientDir = await buildClient();
-  const { baseUrl, databaseUrl } = await startServer(clientDir);
+  const clientDir = await buildBenchClient(cleanups);
+  const { baseUrl, databaseUrl } = await startBenchServer(clientDir, cleanups, { files: false });
   const surveyId = await addReadings(databaseUrl);
   const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: CHROMIUM_ARGS });
   cleanups.push(() => browser.close());
