@@ -37,7 +37,7 @@ export function startEmcFlagJob(deps: { db: Db; mailer: Mailer; publicUrl: strin
         const changed = await service.recompute(organisationId, surveyId);
         if (changed.created + changed.updated + changed.withdrawn > 0) deps.logger.info({ surveyId, ...changed }, 'EMC flags recomputed');
         // The recomputation's own writes raise the version: remember the version after it.
-        seen.set(surveyId, (await repo.dataVersions()).find((v) => v.surveyId === surveyId)?.version ?? version);
+        seen.set(surveyId, (await repo.dataVersions(surveyId))[0]?.version ?? version);
       } catch (error) {
         deps.logger.error({ err: error, surveyId }, 'EMC flag recomputation failed');
       }

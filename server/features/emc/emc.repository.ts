@@ -22,8 +22,9 @@ export function createEmcRepository(db: Db) {
      * Every live survey with the highest change sequence among what its flags depend on: its own row,
      * its stations, readings and decisions, the organisation's watch bands and instruments, and the
      * site's rooms and emitters. Any write to any of them raises it (tombstones too: they are writes).
+     * With `onlySurveyId`, that survey's alone.
      */
-    async dataVersions(): Promise<{ surveyId: string; organisationId: string; version: number }[]> {
+    async dataVersions(onlySurveyId?: string): Promise<{ surveyId: string; organisationId: string; version: number }[]> {
       const result = await db.execute<{ survey_id: string; organisation_id: string; version: string }>(sql`
         SELECT s.id AS survey_id, s.organisation_id, greatest(
           s.change_seq,
@@ -35,7 +36,7 @@ export function createEmcRepository(db: Db) {
           (SELECT max(r.change_seq) FROM rooms r JOIN levels l ON l.id = r.level_id WHERE l.site_id = s.site_id),
           (SELECT max(e.change_seq) FROM emitters e JOIN rooms r ON r.id = e.room_id JOIN levels l ON l.id = r.level_id WHERE l.site_id = s.site_id)
         )::text AS version
-        FROM surveys s WHERE NOT s.deleted`);
+        FROM surveys s WHERE NOT s.deleted${onlySurveyId ? sql` AND s.id = ${onlySurveyId}` : sql``}`);
       return result.rows.map((r) => ({ surveyId: r.survey_id, organisationId: r.organisation_id, version: Number(r.version) }));
     },
 
