@@ -146,6 +146,19 @@ describe('flags follow the readings', () => {
   });
 });
 
+describe('a signed-off survey', () => {
+  it('keeps its flags as they were at sign-off (its report hash covers them), while an open survey gets new ones', async () => {
+    const countFor = (surveyId: string) => countRows(t.databaseUrl, 'flags', `survey_id = '${surveyId}' AND kind = 'line_in_band' AND NOT deleted`);
+    const signedBefore = await countFor(ids.signedOffSurveyId);
+    const openBefore = await countFor(ids.openSurveyId);
+    // A band every room's electron line reaches (1 kHz – 1 THz).
+    await post(emc, '/watch-bands', { name: 'Everything', lowerHz: 1e3, upperHz: 1e12, reason: 'Test', source: 'Invented test data', severity: 'low' }).expect(201);
+    await job.runOnce();
+    expect(await countFor(ids.signedOffSurveyId)).toBe(signedBefore);
+    expect(await countFor(ids.openSurveyId)).toBeGreaterThan(openBefore);
+  });
+});
+
 describe('working a flag', () => {
   let flag: EmcFlag;
   beforeAll(async () => {

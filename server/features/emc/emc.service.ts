@@ -11,6 +11,7 @@
  * its numbers change. When a flag's line no longer reaches its band (a reading rejected, a band edited),
  * a flag still `open` is withdrawn (tombstoned, audited as "withdraw"); one a person has acknowledged or
  * resolved stays as they left it — their record of what they did. Acknowledge and resolve are audited.
+ * A signed-off survey's flags are not recomputed: the sign-off hash covers them.
  */
 import { BUILT_IN_SPECIES, type BuiltInSpeciesId } from '../../../shared/physics/species';
 import {
@@ -184,7 +185,9 @@ export function createEmcService(deps: { repo: EmcRepository; mailer: Mailer; pu
     /** Recomputes one survey's line-in-band flags; returns what changed. Safe to run again at any time. */
     async recompute(organisationId: string, surveyId: string): Promise<{ created: number; updated: number; withdrawn: number }> {
       const survey = await repo.survey(organisationId, surveyId);
-      if (!survey) return { created: 0, updated: 0, withdrawn: 0 };
+      // A signed-off survey is read-only, and its report's hash covers its flags: they stay as signed
+      // (a reopened survey is recomputed again).
+      if (!survey || survey.state === 'signed_off') return { created: 0, updated: 0, withdrawn: 0 };
       const { rooms, bands } = await predict(survey);
       const wanted = new Map<string, FlagValues>();
       for (const p of rooms) for (const hit of bandHits(p.lines, bands)) {
