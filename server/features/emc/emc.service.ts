@@ -36,6 +36,9 @@ const SYSTEM: AuditContext = { actorUserId: null, requestId: 'emc-flag-job' };
 
 const speciesName = (s: string) => BUILT_IN_SPECIES[s as BuiltInSpeciesId]?.name ?? s;
 export const lineLabel = (species: string, harmonic: number) => `${speciesName(species)} line n = ${harmonic}`;
+/** JSON with every object's keys in sorted order: jsonb does not keep key order, so stored details come back reordered. */
+const sortedJson = (value: unknown) =>
+  JSON.stringify(value, (_key, v: unknown) => (v && typeof v === 'object' && !Array.isArray(v) ? Object.fromEntries(Object.keys(v).sort().map((k) => [k, (v as Record<string, unknown>)[k]])) : v));
 const mhz = (hz: number) => `${(hz / 1e6).toPrecision(6)} MHz`;
 
 interface RoomPrediction {
@@ -114,7 +117,7 @@ export function createEmcService(deps: { repo: EmcRepository; mailer: Mailer; pu
   }
 
   const sameNumbers = (a: FlagRow, b: FlagValues) =>
-    a.severity === b.severity && a.overlapLowerHz === b.overlapLowerHz && a.overlapUpperHz === b.overlapUpperHz && JSON.stringify(a.details) === JSON.stringify(b.details);
+    a.severity === b.severity && a.overlapLowerHz === b.overlapLowerHz && a.overlapUpperHz === b.overlapUpperHz && sortedJson(a.details) === sortedJson(b.details);
 
   async function mailNewFlags(survey: SurveyRow, created: FlagRow[]) {
     if (created.length === 0) return;
