@@ -55,9 +55,9 @@ describe('takeSurveyOffline against the real server', () => {
     expect(offline!.zoneSet).not.toBeNull();
     expect(offline!.watchBands.length).toBeGreaterThan(0);
     expect(offline!.instruments.some((i) => i.calibrationOverdue)).toBe(true);
-    // The seed's open survey: 122 stations, 137 readings, 3 sweeps (server/db/seed/demo.ts).
+    // The seed's open survey: 122 stations, 141 readings, 3 sweeps (server/db/seed/demo.ts).
     expect(await db.stations.where('surveyId').equals(surveyId).count()).toBe(122);
-    expect(await db.fieldReadings.where('surveyId').equals(surveyId).count()).toBe(137);
+    expect(await db.fieldReadings.where('surveyId').equals(surveyId).count()).toBe(141);
     expect(await db.sweeps.where('surveyId').equals(surveyId).count()).toBe(3);
     const stations = (await Promise.all(offline!.levels.map((l) => getStations(surveyId, l.id)))).flat();
     expect(stations).toHaveLength(122);

@@ -128,10 +128,10 @@ describe('what the bundle holds matches the database', () => {
               (SELECT count(*)::int FROM sweeps WHERE survey_id = $1 AND NOT deleted) AS sweeps`,
       [openSurveyId],
     );
-    // The seed's numbers for the open 2026 survey (server/db/seed): 122 stations, 137 readings, 3 sweeps.
-    expect(counts).toEqual({ stations: 122, readings: 137, sweeps: 3 });
+    // The seed's numbers for the open 2026 survey (server/db/seed): 122 stations, 141 readings, 3 sweeps.
+    expect(counts).toEqual({ stations: 122, readings: 141, sweeps: 3 });
     expect(bundle.stations).toHaveLength(122);
-    expect(bundle.fieldReadings).toHaveLength(137);
+    expect(bundle.fieldReadings).toHaveLength(141);
     expect(bundle.sweeps).toHaveLength(3);
 
     const latest = await rows<{ id: string; field_t: number | null }>(

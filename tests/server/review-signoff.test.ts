@@ -148,7 +148,11 @@ describe('submit, sign-off, reopen', () => {
       if (r.instrumentId) expect(report.data.instruments.some((i) => i.id === r.instrumentId)).toBe(true);
     }
 
-    const team = [demoEmail('surveyor'), demoEmail('reviewer')];
+    // The survey's team as assigned in the demo (its surveyors and reviewer).
+    const team = (
+      await sql<{ email: string }>(t.databaseUrl, 'SELECT DISTINCT u.email FROM survey_assignments sa JOIN users u ON u.id = sa.user_id WHERE sa.survey_id = $1 AND NOT sa.deleted', [ids.openSurveyId])
+    ).map((r) => r.email);
+    expect(team).toEqual(expect.arrayContaining([demoEmail('surveyor'), demoEmail('reviewer')]));
     for (const email of team) {
       const mail = await t.capture.waitFor((m) => m.to.includes(email) && /signed off/.test(m.subject));
       expect(mail.text).toContain(row!.report_sha256);

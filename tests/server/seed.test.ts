@@ -3,6 +3,7 @@
  * synced row numbered by the organisation's counter, demo accounts that sign in, and readings that
  * follow the dipole law they were generated from.
  */
+import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { and, eq, sql } from 'drizzle-orm';
@@ -12,6 +13,7 @@ import {
   attachments,
   changeLog,
   fieldReadings,
+  flags,
   memberships,
   organisations,
   plans,
@@ -32,6 +34,15 @@ import { attachmentObjectKey } from '../../shared/sync/attachment-key';
 import { startTestStorage } from '../setup/test-app';
 import { demoPlanDrawings, PLANS_DIR, renderPlanSvg } from '../../server/db/seed/plan-svg';
 import { verifyPassword } from '../../server/features/auth/password';
+import { createEmcRepository } from '../../server/features/emc/emc.repository';
+import { createEmcService } from '../../server/features/emc/emc.service';
+import { createEmcSweepsRepository } from '../../server/features/emc-sweeps/emc-sweeps.repository';
+import { createEmcSweepsService } from '../../server/features/emc-sweeps/emc-sweeps.service';
+import { createReviewRepository } from '../../server/features/review/review.repository';
+import { createReviewService } from '../../server/features/review/review.service';
+import { createRepeatsService } from '../../server/features/sync/repeats.service';
+import { createSyncRepository } from '../../server/features/sync/sync.repository';
+import { createLogger } from '../../server/lib/logger';
 import { createTestDatabase, type TestDatabase } from '../setup/test-db';
 
 interface Opened {
@@ -66,8 +77,16 @@ async function snapshot(db: Db, without: string[] = []): Promise<Record<string, 
         sql.raw(`SELECT md5(coalesce(string_agg((to_jsonb(t)${drop})::text, '|' ORDER BY t.id), '')) AS hash FROM ${key} t`),
       );
       out[table] = result.rows[0]!.hash ?? '';
+    } else if (table === 'audit_log') {
+      // An audit row's before/after is the record as written, server timestamps included: those go too.
+      const drop = [...without, 'at'].map((c) => ` - '${c}'`).join('');
+      const body = without.length
+        ? `(to_jsonb(t)${drop} - 'before' - 'after') || jsonb_build_object('before', t.before - 'createdAt' - 'updatedAt', 'after', t.after - 'createdAt' - 'updatedAt')`
+        : `to_jsonb(t)${drop}`;
+      const result = await db.execute<{ hash: string | null }>(sql.raw(`SELECT md5(coalesce(string_agg((${body})::text, '|' ORDER BY t.id::text), '')) AS hash FROM audit_log t`));
+      out[table] = result.rows[0]!.hash ?? '';
     } else {
-      out[table] = await tableHash(db, table, table === 'audit_log' ? [...without, 'at'] : without);
+      out[table] = await tableHash(db, table, without);
     }
   }
   const people = await db.execute<{ hash: string }>(
@@ -109,6 +128,7 @@ describe('seedDemo', () => {
         'emc:emc@harrowby.example',
         'reviewer:reviewer@harrowby.example',
         'surveyor:surveyor2@harrowby.example',
+        'surveyor:surveyor3@harrowby.example',
         'surveyor:surveyor@harrowby.example',
         'viewer:viewer@harrowby.example',
       ].sort(),
@@ -140,7 +160,8 @@ describe('seedDemo', () => {
     const [a, b] = await Promise.all([seedDemo(second.db), seedDemo(second.db)]);
     expect([a.created, b.created].sort()).toEqual([false, true]);
     expect(a.users).toEqual(result.users);
-    // Server timestamps (created_at, updated_at, audit `at`) are the only columns allowed to differ.
+    // Server timestamps (created_at, updated_at, audit `at`, and the createdAt / updatedAt of the records an
+    // audit row holds) are the only values allowed to differ.
     const without = ['created_at', 'updated_at', 'at'];
     expect(await tableHash(second.db, 'field_readings', without)).toBe(await tableHash(first.db, 'field_readings', without));
     expect(await snapshot(second.db, without)).toEqual(await snapshot(first.db, without));
@@ -151,33 +172,47 @@ describe('seedDemo', () => {
   it('numbers every synced row from its organisation counter and logs each change once', async () => {
     for (const organisationId of [HARROWBY_ORG_ID, KESTREL_ORG_ID]) {
       const union = SYNCED_ENTITIES.map((t) => `SELECT '${t}' AS entity, id, change_seq, revision, deleted FROM "${t}" WHERE organisation_id = '${organisationId}'`).join(' UNION ALL ');
-      const rows = (await first.db.execute<{ entity: string; id: string; change_seq: string }>(sql.raw(union))).rows;
+      const rows = (await first.db.execute<{ entity: string; id: string; change_seq: string; revision: number }>(sql.raw(union))).rows;
       const log = await first.db.select().from(changeLog).where(eq(changeLog.organisationId, organisationId)).orderBy(changeLog.seq);
       const [org] = await first.db.select({ changeSeq: organisations.changeSeq }).from(organisations).where(eq(organisations.id, organisationId));
 
+      // Most rows are written once; a few are then changed by the server's own code (flags worked, surveys
+      // signed off): one logged change per revision, the row carrying the sequence of its latest.
+      const changes = rows.reduce((n, row) => n + row.revision, 0);
       expect(rows.length).toBeGreaterThan(0);
-      expect(log.map((l) => l.seq)).toEqual(Array.from({ length: rows.length }, (_, i) => i + 1));
-      expect(org!.changeSeq).toBe(rows.length);
-      const logged = new Map(log.map((l) => [`${l.entity}:${l.entityId}`, l.seq]));
-      for (const row of rows) expect(logged.get(`${row.entity}:${row.id}`), `${row.entity} ${row.id}`).toBe(Number(row.change_seq));
+      expect(log.map((l) => l.seq)).toEqual(Array.from({ length: changes }, (_, i) => i + 1));
+      expect(org!.changeSeq).toBe(changes);
+      const logged = new Map<string, { seq: number; revisions: number[] }>();
+      for (const l of log) {
+        const key = `${l.entity}:${l.entityId}`;
+        const entry = logged.get(key) ?? { seq: 0, revisions: [] };
+        logged.set(key, { seq: l.seq, revisions: [...entry.revisions, l.revision] });
+      }
+      for (const row of rows) {
+        const entry = logged.get(`${row.entity}:${row.id}`);
+        expect(entry?.seq, `${row.entity} ${row.id}`).toBe(Number(row.change_seq));
+        expect(entry?.revisions, `${row.entity} ${row.id}`).toEqual(Array.from({ length: row.revision }, (_, i) => i + 1));
+      }
     }
   });
 
-  it('seeds one open survey with the surveyor assigned, and one signed-off survey with every reading decided', async () => {
+  it('seeds one open survey with its two surveyors assigned, and two signed-off surveys with every reading decided', async () => {
     const all = await first.db.select().from(surveys).where(eq(surveys.organisationId, HARROWBY_ORG_ID));
-    expect(all.map((s) => s.state).sort()).toEqual(['open', 'signed_off']);
+    expect(all.map((s) => s.state).sort()).toEqual(['open', 'signed_off', 'signed_off']);
     const open = all.find((s) => s.state === 'open')!;
-    const signed = all.find((s) => s.state === 'signed_off')!;
     const assigned = await first.db
       .select()
       .from(surveyAssignments)
       .where(and(eq(surveyAssignments.surveyId, open.id), eq(surveyAssignments.role, 'surveyor')));
-    expect(assigned.map((a) => a.userId)).toEqual([result.users.surveyor]);
+    const [onPhone] = await first.db.select({ id: users.id }).from(users).where(eq(users.email, 'surveyor3@harrowby.example'));
+    expect(assigned.map((a) => a.userId).sort()).toEqual([result.users.surveyor, onPhone!.id].sort());
 
-    const undecided = await first.db.execute<{ n: number }>(sql`
-      SELECT count(*)::int AS n FROM field_readings r
-      WHERE r.survey_id = ${signed.id} AND NOT EXISTS (SELECT 1 FROM decisions d WHERE d.field_reading_id = r.id)`);
-    expect(undecided.rows[0]!.n).toBe(0);
+    for (const signed of all.filter((s) => s.state === 'signed_off')) {
+      const undecided = await first.db.execute<{ n: number }>(sql`
+        SELECT count(*)::int AS n FROM field_readings r
+        WHERE r.survey_id = ${signed.id} AND NOT EXISTS (SELECT 1 FROM decisions d WHERE d.field_reading_id = r.id)`);
+      expect(undecided.rows[0]!.n, signed.name).toBe(0);
+    }
     const remeasure = await first.db.execute<{ n: number }>(sql`SELECT count(*)::int AS n FROM decisions WHERE survey_id = ${open.id} AND verdict = 'remeasure'`);
     expect(remeasure.rows[0]!.n).toBe(1);
   });
@@ -305,5 +340,110 @@ describe('seedDemo', () => {
     } finally {
       await files.close();
     }
+  });
+});
+
+/**
+ * RFC 8785 canonical JSON written independently of shared/review/canonical-json.ts (as in
+ * review-signoff.test.ts): JSON.stringify with every object's keys re-inserted in sorted order
+ * (JSON.stringify keeps insertion order for non-integer keys, and no key in the report is an integer).
+ */
+function independentCanonical(value: unknown): string {
+  return JSON.stringify(value, (_key, v: unknown) =>
+    v && typeof v === 'object' && !Array.isArray(v) ? Object.fromEntries(Object.keys(v as object).sort().map((k) => [k, (v as Record<string, unknown>)[k]])) : v,
+  );
+}
+
+const silentLogger = () => createLogger('silent');
+const noMail = { send: async () => {}, close: () => {} };
+const openSurveyId = demoId('harrowby:survey:2026');
+
+describe('the demo story', () => {
+  it('has two signed-off surveys a year apart, each with a report hash that the report page verifies', async () => {
+    const signed = (await first.db.select().from(surveys).where(and(eq(surveys.organisationId, HARROWBY_ORG_ID), eq(surveys.state, 'signed_off')))).sort((a, b) => a.signedOffAt!.getTime() - b.signedOffAt!.getTime());
+    expect(signed).toHaveLength(2);
+    const days = (signed[1]!.signedOffAt!.getTime() - signed[0]!.signedOffAt!.getTime()) / 86_400_000;
+    expect(days).toBeGreaterThan(330);
+    expect(days).toBeLessThan(400);
+    const review = createReviewService({ repo: createReviewRepository(first.db), mailer: noMail, publicUrl: 'http://localhost', logger: silentLogger() });
+    for (const survey of signed) {
+      expect(survey.reportSha256, survey.name).toMatch(/^[0-9a-f]{64}$/);
+      const report = await review.report(HARROWBY_ORG_ID, survey.id);
+      // SHA-256 (node:crypto) of the canonical JSON of the report's data as served now is the one recorded.
+      expect(createHash('sha256').update(independentCanonical(report.data), 'utf8').digest('hex'), survey.name).toBe(survey.reportSha256);
+      expect(report.dataSha256).toBe(survey.reportSha256);
+      expect(report.status.signedOffBy?.userId).toBe(result.users.reviewer);
+      // Made by more than one surveyor, on more than one device; with the survey's flags in the signed report.
+      expect(new Set(report.data.readings.map((r) => r.surveyorUserId)).size, survey.name).toBeGreaterThanOrEqual(2);
+      expect(report.data.flags.length, survey.name).toBeGreaterThan(0);
+      expect(report.data.readings.every((r) => r.decision && r.decision.verdict !== 'remeasure'), survey.name).toBe(true);
+      const audit = await first.db.execute<{ actor_user_id: string }>(sql`SELECT actor_user_id FROM audit_log WHERE entity = 'surveys' AND entity_id = ${survey.id} AND action = 'sign_off'`);
+      expect(audit.rows.map((r) => r.actor_user_id)).toEqual([result.users.reviewer]);
+    }
+    // The magnets were there per their installation dates: the ECR tool (2026) is in neither signed survey.
+    const ecr = HARROWBY_SOURCES.find((s) => s.key === 'ecr-coils')!;
+    expect(signed.every((s) => s.signedOffAt!.toISOString().slice(0, 10) < ecr.installedOn)).toBe(true);
+  });
+
+  it('has the open survey walked by two surveyors on two devices', async () => {
+    const rows = await first.db.execute<{ surveyors: number; devices: number }>(sql`
+      SELECT count(DISTINCT r.surveyor_user_id)::int AS surveyors, count(DISTINCT w.device_id)::int AS devices
+      FROM field_readings r JOIN walks w ON w.id = r.walk_id WHERE r.survey_id = ${openSurveyId}`);
+    expect(rows.rows[0]!.surveyors).toBeGreaterThanOrEqual(2);
+    expect(rows.rows[0]!.devices).toBeGreaterThanOrEqual(2);
+  });
+
+  it('has sweeps whose peaks the predicted lines explain, and at least one peak they do not', async () => {
+    const files = await startTestStorage();
+    try {
+      const service = createEmcSweepsService({ repo: createEmcSweepsRepository(first.db), storage: files.storage, logger: silentLogger() });
+      const list = await service.list(HARROWBY_ORG_ID, openSurveyId);
+      expect(list.reduce((n, s) => n + s.markerCounts.explained, 0)).toBeGreaterThanOrEqual(1);
+      expect(list.reduce((n, s) => n + s.markerCounts.unexplained, 0)).toBeGreaterThanOrEqual(1);
+    } finally {
+      await files.close();
+    }
+  });
+
+  it('has open, acknowledged and resolved EMC flags on the open survey, worked by the EMC engineer with audit rows', async () => {
+    const rows = await first.db.select().from(flags).where(and(eq(flags.surveyId, openSurveyId), eq(flags.deleted, false)));
+    const states = new Set(rows.map((f) => f.state));
+    expect([...states].sort()).toEqual(['acknowledged', 'open', 'resolved']);
+    for (const flag of rows.filter((f) => f.state !== 'open')) {
+      expect(flag.acknowledgedByUserId).toBe(result.users.emc);
+      expect(flag.acknowledgementNote).toMatch(/Demo data/);
+      const actions = await first.db.execute<{ action: string; actor_user_id: string }>(sql`SELECT action, actor_user_id FROM audit_log WHERE entity = 'flags' AND entity_id = ${flag.id} AND action IN ('acknowledge', 'resolve') ORDER BY id`);
+      expect(actions.rows).toEqual(flag.state === 'resolved' ? [{ action: 'acknowledge', actor_user_id: result.users.emc }, { action: 'resolve', actor_user_id: result.users.emc }] : [{ action: 'acknowledge', actor_user_id: result.users.emc }]);
+      if (flag.state === 'resolved') expect(flag.resolution).toMatch(/Demo data/);
+    }
+  });
+
+  it('has exactly one disagreeing repeat group in the open survey, at the reading the reviewer asked to re-measure', async () => {
+    const repeats = createRepeatsService({ repo: createSyncRepository(first.db), logger: silentLogger() });
+    try {
+      const { groups } = await repeats.list(HARROWBY_ORG_ID, openSurveyId);
+      expect(groups.length).toBeGreaterThan(1);
+      const disagreeing = groups.filter((g) => g.disagree);
+      expect(disagreeing).toHaveLength(1);
+      const remeasure = await first.db.execute<{ field_reading_id: string }>(sql`SELECT field_reading_id FROM decisions WHERE survey_id = ${openSurveyId} AND verdict = 'remeasure'`);
+      expect(disagreeing[0]!.readingIds).toContain(remeasure.rows[0]!.field_reading_id);
+      // Eₙ = |B₁ − B₂| / √(U₁² + U₂²) with U = k·u·B, k = 2 (ISO 13528 and the GUM, recalled): above 1.
+      const members = await first.db.execute<{ field_t: number; u: number }>(sql`
+        SELECT r.field_t, i.relative_uncertainty AS u FROM field_readings r JOIN instruments i ON i.id = r.instrument_id WHERE r.id IN ${sql.raw(`('${disagreeing[0]!.readingIds.join("','")}')`)}`);
+      const [a, b] = members.rows.sort((x, y) => x.field_t - y.field_t).filter((_, i, all) => i === 0 || i === all.length - 1);
+      const en = Math.abs(b!.field_t - a!.field_t) / Math.hypot(2 * a!.u * a!.field_t, 2 * b!.u * b!.field_t);
+      expect(en).toBeGreaterThan(1);
+    } finally {
+      await repeats.close();
+    }
+  });
+
+  it('leaves the flag job nothing to change', async () => {
+    const before = await snapshot(first.db, ['created_at', 'updated_at', 'at']);
+    const emc = createEmcService({ repo: createEmcRepository(first.db), mailer: noMail, publicUrl: 'http://localhost', logger: silentLogger() });
+    for (const survey of await first.db.select({ id: surveys.id }).from(surveys).where(eq(surveys.organisationId, HARROWBY_ORG_ID))) {
+      expect(await emc.recompute(HARROWBY_ORG_ID, survey.id)).toEqual({ created: 0, updated: 0, withdrawn: 0 });
+    }
+    expect((await snapshot(first.db, ['created_at', 'updated_at', 'at'])).flags).toBe(before.flags);
   });
 });

@@ -30,7 +30,7 @@ export async function readDemoIds(databaseUrl: string): Promise<DemoIds> {
   const org = await one<{ id: string }>(`SELECT id FROM organisations WHERE name ILIKE 'Harrowby%'`);
   const kestrel = await one<{ id: string }>(`SELECT id FROM organisations WHERE name ILIKE 'Kestrel%'`);
   const open = await one<{ id: string; site_id: string }>(`SELECT id, site_id FROM surveys WHERE organisation_id = $1 AND state = 'open' ORDER BY name LIMIT 1`, [org.id]);
-  const signed = await one<{ id: string }>(`SELECT id FROM surveys WHERE organisation_id = $1 AND state = 'signed_off' LIMIT 1`, [org.id]);
+  const signed = await one<{ id: string }>(`SELECT id FROM surveys WHERE organisation_id = $1 AND state = 'signed_off' ORDER BY signed_off_at DESC LIMIT 1`, [org.id]);
   const level = await one<{ id: string }>(`SELECT id FROM levels WHERE site_id = $1 ORDER BY ordinal LIMIT 1`, [open.site_id]);
   const kLevel = await one<{ id: string }>(`SELECT id FROM levels WHERE organisation_id = $1 LIMIT 1`, [kestrel.id]);
   const meter = await one<{ id: string; relative_uncertainty: number }>(

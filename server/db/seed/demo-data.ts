@@ -38,6 +38,9 @@ export const HARROWBY = {
     { key: 'surveyor', email: 'surveyor@harrowby.example', name: 'Ada Lindqvist-Marr', role: 'surveyor' },
     { key: 'viewer', email: 'viewer@harrowby.example', name: 'Morwenna Quayle', role: 'viewer' },
     { key: 'surveyor2', email: 'surveyor2@harrowby.example', name: 'Bram Okonjo-Rees', role: 'surveyor' },
+    // Walks the open 2026 survey on her phone; Bram (above) is on the earlier surveys only, so the demo also
+    // has a surveyor who is not on the open survey (and sees none of it).
+    { key: 'surveyor3', email: 'surveyor3@harrowby.example', name: 'Priya Halloran-Date', role: 'surveyor' },
   ] satisfies PersonSpec[],
 } as const;
 

@@ -7,6 +7,13 @@
  * Classical Electrodynamics, 3rd ed., §5.6, via shared/physics/dipole.ts) plus an invented Earth field
  * and seeded measurement noise, so every run makes the same numbers.
  *
+ * The story: two signed-off annual checks a year apart (2024, 2025) and the open
+ * 2026 check of the same campus, walked by several surveyors on several devices; repeat readings, one group of
+ * which disagrees (a reading against a steel door frame) and is sent back for re-measurement; sweeps with peaks
+ * the predicted lines explain and peaks they do not; EMC flags open, acknowledged and resolved. The flags and
+ * the sign-offs (report SHA-256) are made by the server's own EMC and review code once the rows are written,
+ * in the same transaction (demo-review.ts).
+ *
  * Idempotent: each organisation has a fixed id; an organisation that already exists is left exactly as
  * it is, so running the seed twice changes nothing. Two seeders racing are serialised by an advisory
  * lock. Every synced row gets its change_seq from the organisation's counter (server/db/audit.ts), and a
@@ -71,6 +78,8 @@ import { demoId } from './ids';
 import { PLAN_HEIGHT_PX, PLAN_WIDTH_PX, PLANS_DIR } from './plan-svg';
 import { createPrng, type Prng } from './prng';
 import { DEMO_TRACES, demoTraceRows } from './demo-traces';
+import { acknowledgeDemoFlag, computeDemoFlags, resolveDemoFlag, signOffDemoSurvey } from './demo-review';
+import type { FlagRow } from '../../features/emc/emc.repository';
 
 export { DEMO_PASSWORD } from './demo-data';
 
@@ -89,6 +98,10 @@ const SEED_LOCK_KEY = 7_320_114;
 const EARTH_FIELD_T: Vec3 = [0, 19e-6, -45e-6];
 /** Probe offset noise, T (invented: a zeroed meter's last-digit wander). */
 const OFFSET_NOISE_T = 0.1e-6;
+/** The fluxgate's range (2 mT, demo-data.ts) with some headroom: its surveyor keeps below this. */
+const FLUXGATE_RANGE_T = 1.5e-3;
+/** Invented: a probe held against a steel door frame reads the local field this much too high. */
+const STEEL_DOOR_SCALE = 1.3;
 /** Stations closer than this to a magnet centre (horizontally, same level) are not placed: that is inside the magnet. */
 const MAGNET_KEEP_OUT_M = 1.5;
 
@@ -117,6 +130,8 @@ interface Batch {
 
 class RowSet {
   readonly batches: Batch[] = [];
+  /** Work done once the rows are written, in the same transaction (sign-offs and flags, by the server's own code). */
+  readonly afterWrite: ((tx: Tx) => Promise<void>)[] = [];
   /** Files that have "arrived" for synced rows (the demo traces); not synced rows themselves. */
   readonly attachments: InferInsertModel<typeof attachments>[] = [];
   add<T extends PgTable & Table>(entity: SyncedEntity, table: T, rows: InferInsertModel<T>[]): void {
@@ -481,6 +496,8 @@ function buildHarrowby(organisationId: string, people: UserIds): RowSet {
   const readingRows: InferInsertModel<typeof fieldReadings>[] = [];
   const sweepRows: InferInsertModel<typeof sweeps>[] = [];
   const decisionRows: InferInsertModel<typeof decisions>[] = [];
+  /** Surveys written as submitted, signed off once their rows are in (finishHarrowby). */
+  const signOffs: SignOff[] = [];
 
   const assign = (surveyKey: string, userKey: string, role: 'surveyor' | 'reviewer') =>
     assignmentRows.push({
@@ -561,102 +578,142 @@ function buildHarrowby(organisationId: string, people: UserIds): RowSet {
     return { readingId, fieldT: values.fieldT };
   };
 
-  // --- 2025: signed off. Two surveyors; the ECR tool was not installed yet. -------------------------------------------
-  const s2025: SurveyPlan = {
-    key: '2025',
-    name: '2025 annual fringe-field check',
-    zoneSetKey: 'iec-ed3',
-    startsOn: '2025-11-12',
-    endsOn: '2025-11-21',
-    onDate: '2025-11-12',
-    spacingM: 4,
-    levelKeys: ['b1', 'g', 'l1'],
-  };
-  surveyRows.push({
-    id: id('survey:2025'),
-    organisationId,
-    changeSeq: 0,
-    siteId,
-    name: s2025.name,
-    state: 'signed_off',
-    zoneSetId: id(`zone-set:${s2025.zoneSetKey}`),
-    levelIds: s2025.levelKeys.map((key) => id(`level:${key}`)),
-    startsOn: s2025.startsOn,
-    endsOn: s2025.endsOn,
-    species: ['electron', 'proton'],
-    maxHarmonic: 3,
-    submittedAt: new Date('2025-11-20T16:00:00Z'),
-    submittedByUserId: user('reviewer'),
-    signedOffAt: new Date('2025-11-21T10:30:00Z'),
-    signedOffByUserId: user('reviewer'),
-    notes: 'Annual check after the MR 1 software upgrade. Demo data.',
-  });
-  assign('2025', 'surveyor', 'surveyor');
-  assign('2025', 'surveyor2', 'surveyor');
-  assign('2025', 'reviewer', 'reviewer');
-  {
-    const prng = createPrng('harrowby-2025');
-    const walkA = id('survey:2025:walk:ada');
-    const walkB = id('survey:2025:walk:bram');
+  /**
+   * A signed-off annual check: Ada walks some levels with the three-axis Hall meter on the survey tablet,
+   * Bram walks others with the fluxgate on his phone and cross-checks a few of Ada's ground-floor stations
+   * (repeat groups across walks); the reviewer accepts every reading but an outlier, which is rejected
+   * and measured again. The rows are written as `submitted`; the sign-off itself (report hash, flags) is
+   * done after they are in the database, with the server's own code (finishHarrowby).
+   */
+  interface SignedOffSpec {
+    plan: SurveyPlan;
+    notes: string;
+    prngSeed: string;
+    adaLevels: string[];
+    bramLevels: string[];
+    adaWalk: { startedAt: string; endedAt: string };
+    bramWalk: { startedAt: string; endedAt: string };
+    /** Ada's reading on the ground floor (by station index) that hit something steel. */
+    outlier: { index: number; scale: number; notes: string; decisionNote: string; decidedAt: string } | null;
+    crossChecks: number;
+    decisionsFrom: string;
+    submittedAt: string;
+    signedOffAt: string;
+  }
+  const signedOffSurvey = (spec: SignedOffSpec) => {
+    const { plan } = spec;
+    const surveyId = id(`survey:${plan.key}`);
+    surveyRows.push({
+      id: surveyId,
+      organisationId,
+      changeSeq: 0,
+      siteId,
+      name: plan.name,
+      state: 'submitted',
+      zoneSetId: id(`zone-set:${plan.zoneSetKey}`),
+      levelIds: plan.levelKeys.map((key) => id(`level:${key}`)),
+      startsOn: plan.startsOn,
+      endsOn: plan.endsOn,
+      species: ['electron', 'proton'],
+      maxHarmonic: 3,
+      submittedAt: new Date(spec.submittedAt),
+      submittedByUserId: user('reviewer'),
+      notes: spec.notes,
+    });
+    assign(plan.key, 'surveyor', 'surveyor');
+    assign(plan.key, 'surveyor2', 'surveyor');
+    assign(plan.key, 'reviewer', 'reviewer');
+    signOffs.push({ surveyKey: plan.key, surveyId, signedOffAt: new Date(spec.signedOffAt) });
+    const prng = createPrng(spec.prngSeed);
+    const walkA = id(`survey:${plan.key}:walk:ada`);
+    const walkB = id(`survey:${plan.key}:walk:bram`);
     walkRows.push(
-      { id: walkA, organisationId, changeSeq: 0, surveyId: id('survey:2025'), surveyorUserId: user('surveyor'), deviceId: 'demo-tablet-01', deviceLabel: 'Survey tablet 1', startedAt: new Date('2025-11-12T08:30:00Z'), endedAt: new Date('2025-11-12T15:10:00Z') },
-      { id: walkB, organisationId, changeSeq: 0, surveyId: id('survey:2025'), surveyorUserId: user('surveyor2'), deviceId: 'demo-phone-07', deviceLabel: 'Bram’s phone', startedAt: new Date('2025-11-13T09:00:00Z'), endedAt: new Date('2025-11-13T13:40:00Z') },
+      { id: walkA, organisationId, changeSeq: 0, surveyId, surveyorUserId: user('surveyor'), deviceId: 'demo-tablet-01', deviceLabel: 'Survey tablet 1', startedAt: new Date(spec.adaWalk.startedAt), endedAt: new Date(spec.adaWalk.endedAt) },
+      { id: walkB, organisationId, changeSeq: 0, surveyId, surveyorUserId: user('surveyor2'), deviceId: 'demo-phone-07', deviceLabel: 'Bram’s phone', startedAt: new Date(spec.bramWalk.startedAt), endedAt: new Date(spec.bramWalk.endedAt) },
     );
-    const ctxA: ReadingContext = { survey: s2025, walkId: walkA, userKey: 'surveyor', clock: { atMs: Date.parse('2025-11-12T08:30:00Z') }, prng };
-    const ctxB: ReadingContext = { survey: s2025, walkId: walkB, userKey: 'surveyor2', clock: { atMs: Date.parse('2025-11-13T09:00:00Z') }, prng };
+    const ctxA: ReadingContext = { survey: plan, walkId: walkA, userKey: 'surveyor', clock: { atMs: Date.parse(spec.adaWalk.startedAt) }, prng };
+    const ctxB: ReadingContext = { survey: plan, walkId: walkB, userKey: 'surveyor2', clock: { atMs: Date.parse(spec.bramWalk.startedAt) }, prng };
     const groundStations: { stationId: string; trueB: Vec3 }[] = [];
     const taken: string[] = [];
-    for (const levelKey of ['b1', 'g']) {
-      const placedStations = placeStations(s2025, levelKey, walkA, 'surveyor');
+    const rejected: string[] = [];
+    for (const levelKey of spec.adaLevels) {
+      const placedStations = placeStations(plan, levelKey, walkA, 'surveyor');
       placedStations.forEach((st, i) => {
         const first = taken.length === 0;
         taken.push(addReading(ctxA, st, hall, 'vector', { unitPreference: 'si', backgroundT: first ? 48.8e-6 : undefined }).readingId);
         if (levelKey === 'g') groundStations.push(st);
-        if (levelKey === 'g' && i === 7) {
+        const outlier = spec.outlier;
+        if (outlier && levelKey === 'g' && i === outlier.index) {
           // An outlier the reviewer rejected, then the station measured again.
-          const bad = addReading(ctxA, st, hall, 'vector', { unitPreference: 'si', scale: 2.6, notes: 'Probe resting on the steel trolley.' });
+          const bad = addReading(ctxA, st, hall, 'vector', { unitPreference: 'si', scale: outlier.scale, notes: outlier.notes });
+          rejected.push(bad.readingId);
           decisionRows.push({
-            id: id('survey:2025:decision:rejected'),
+            id: id(`survey:${plan.key}:decision:rejected`),
             organisationId,
             changeSeq: 0,
-            surveyId: id('survey:2025'),
+            surveyId,
             fieldReadingId: bad.readingId,
             verdict: 'rejected',
-            note: 'Probe was on a steel trolley; the repeat reading is used.',
+            note: outlier.decisionNote,
             reviewerUserId: user('reviewer'),
-            decidedAt: new Date('2025-11-20T11:05:00Z'),
+            decidedAt: new Date(outlier.decidedAt),
           });
           taken.push(addReading(ctxA, st, hall, 'vector', { unitPreference: 'si', notes: 'Repeat, trolley moved away.' }).readingId);
         }
       });
     }
-    for (const st of placeStations(s2025, 'l1', walkB, 'surveyor2')) {
-      taken.push(addReading(ctxB, st, fluxgate, 'magnitude', { unitPreference: 'gauss' }).readingId);
+    for (const levelKey of spec.bramLevels) {
+      for (const st of placeStations(plan, levelKey, walkB, 'surveyor2')) taken.push(addReading(ctxB, st, fluxgate, 'magnitude', { unitPreference: 'gauss' }).readingId);
     }
     // Bram repeats a few of Ada's ground-floor stations (within the fluxgate's range), giving repeat groups across walks.
     groundStations
-      .filter((st) => Math.hypot(...st.trueB) < 1.5e-3)
+      .filter((st) => Math.hypot(...st.trueB) < FLUXGATE_RANGE_T)
       .filter((_, i) => i % 4 === 0)
-      .slice(0, 6)
+      .slice(0, spec.crossChecks)
       .forEach((st) => taken.push(addReading(ctxB, st, fluxgate, 'magnitude', { unitPreference: 'gauss', notes: 'Cross-check of tablet 1.' }).readingId));
-    const rejected = new Set(decisionRows.map((d) => d.fieldReadingId));
     taken
-      .filter((readingId) => !rejected.has(readingId))
+      .filter((readingId) => !rejected.includes(readingId))
       .forEach((readingId, i) =>
         decisionRows.push({
-          id: id(`survey:2025:decision:${i}`),
+          id: id(`survey:${plan.key}:decision:${i}`),
           organisationId,
           changeSeq: 0,
-          surveyId: id('survey:2025'),
+          surveyId,
           fieldReadingId: readingId,
           verdict: 'accepted',
           reviewerUserId: user('reviewer'),
-          decidedAt: new Date(Date.parse('2025-11-20T09:00:00Z') + i * 20_000),
+          decidedAt: new Date(Date.parse(spec.decisionsFrom) + i * 20_000),
         }),
       );
-  }
+  };
 
-  // --- 2026: open. One surveyor so far, with the new ECR tool on level 1. --------------------------------------------
+  // --- 2025: signed off. Two surveyors; the ECR tool was not installed yet. -------------------------------------------
+  signedOffSurvey({
+    plan: {
+      key: '2025',
+      name: '2025 annual fringe-field check',
+      zoneSetKey: 'iec-ed3',
+      startsOn: '2025-11-12',
+      endsOn: '2025-11-21',
+      onDate: '2025-11-12',
+      spacingM: 4,
+      levelKeys: ['b1', 'g', 'l1'],
+    },
+    notes: 'Annual check after the MR 1 software upgrade. Demo data.',
+    prngSeed: 'harrowby-2025',
+    adaLevels: ['b1', 'g'],
+    bramLevels: ['l1'],
+    adaWalk: { startedAt: '2025-11-12T08:30:00Z', endedAt: '2025-11-12T15:10:00Z' },
+    bramWalk: { startedAt: '2025-11-13T09:00:00Z', endedAt: '2025-11-13T13:40:00Z' },
+    outlier: { index: 7, scale: 2.6, notes: 'Probe resting on the steel trolley.', decisionNote: 'Probe was on a steel trolley; the repeat reading is used.', decidedAt: '2025-11-20T11:05:00Z' },
+    crossChecks: 6,
+    decisionsFrom: '2025-11-20T09:00:00Z',
+    submittedAt: '2025-11-20T16:00:00Z',
+    signedOffAt: '2025-11-21T10:30:00Z',
+  });
+
+  // --- 2026: open. Ada on the survey tablet (with the new ECR tool on level 1), Priya on her phone (the roof, and a
+  // cross-check of the ground floor that finds one of Ada's readings off: the reviewer asks for it again).
   const s2026: SurveyPlan = {
     key: '2026',
     name: '2026 annual fringe-field check',
@@ -684,20 +741,36 @@ function buildHarrowby(organisationId: string, people: UserIds): RowSet {
   });
   assign('2026', 'surveyor', 'surveyor');
   assign('2026', 'reviewer', 'reviewer');
+  assign('2026', 'surveyor3', 'surveyor');
   {
     const prng = createPrng('harrowby-2026');
     const walkId = id('survey:2026:walk:ada');
-    walkRows.push({
-      id: walkId,
-      organisationId,
-      changeSeq: 0,
-      surveyId: id('survey:2026'),
-      surveyorUserId: user('surveyor'),
-      deviceId: 'demo-tablet-01',
-      deviceLabel: 'Survey tablet 1',
-      startedAt: new Date('2026-11-17T08:15:00Z'),
-    });
+    const phoneWalkId = id('survey:2026:walk:priya');
+    walkRows.push(
+      {
+        id: walkId,
+        organisationId,
+        changeSeq: 0,
+        surveyId: id('survey:2026'),
+        surveyorUserId: user('surveyor'),
+        deviceId: 'demo-tablet-01',
+        deviceLabel: 'Survey tablet 1',
+        startedAt: new Date('2026-11-17T08:15:00Z'),
+      },
+      {
+        id: phoneWalkId,
+        organisationId,
+        changeSeq: 0,
+        surveyId: id('survey:2026'),
+        surveyorUserId: user('surveyor3'),
+        deviceId: 'demo-phone-12',
+        deviceLabel: 'Priya’s phone',
+        startedAt: new Date('2026-11-17T13:30:00Z'),
+        endedAt: new Date('2026-11-17T15:05:00Z'),
+      },
+    );
     const ctx: ReadingContext = { survey: s2026, walkId, userKey: 'surveyor', clock: { atMs: Date.parse('2026-11-17T08:15:00Z') }, prng };
+    const phoneCtx: ReadingContext = { survey: s2026, walkId: phoneWalkId, userKey: 'surveyor3', clock: { atMs: Date.parse('2026-11-17T13:30:00Z') }, prng };
     const ecr = HARROWBY_SOURCES.find((s) => s.key === 'ecr-coils')!;
     // Stations at the etch tool's access ports, where the electron line sits near 2.45 GHz.
     const ecrPorts: StationSpot[] = [
@@ -705,17 +778,32 @@ function buildHarrowby(organisationId: string, people: UserIds): RowSet {
       { roomKey: 'etch', xM: ecr.xM + 0.5, yM: ecr.yM },
       { roomKey: 'etch', xM: ecr.xM, yM: ecr.yM - 0.8 },
     ];
-    const all: { stationId: string; spot: StationSpot; trueB: Vec3; readingId: string; fieldT: number }[] = [];
-    for (const levelKey of s2026.levelKeys) {
+    const all: { stationId: string; spot: StationSpot; levelKey: string; trueB: Vec3; readingId: string; fieldT: number }[] = [];
+    let steelDoorReading: string | null = null;
+    for (const levelKey of ['b1', 'g', 'l1']) {
       const placedStations = placeStations(s2026, levelKey, walkId, 'surveyor', levelKey === 'l1' ? ecrPorts : []);
       placedStations.forEach((st, i) => {
         // Every fifth reading is the meter's |B| display instead of the three components.
         const mode: ReadingMode = (all.length + 1) % 5 === 0 ? 'magnitude' : 'vector';
-        const taken = addReading(ctx, st, hall, mode, { unitPreference: 'si', backgroundT: all.length === 0 ? 48.8e-6 : undefined });
+        // The first gamma-camera station is read with the probe against the steel door frame, which pulls
+        // the local field up (modelled as a scale on the true field): Priya's cross-check disagrees with it.
+        const atSteelDoor = steelDoorReading === null && st.spot.roomKey === 'gamma';
+        const taken = addReading(ctx, st, hall, mode, { unitPreference: 'si', backgroundT: all.length === 0 ? 48.8e-6 : undefined, scale: atSteelDoor ? STEEL_DOOR_SCALE : undefined });
+        if (atSteelDoor) steelDoorReading = taken.readingId;
         all.push({ ...st, ...taken });
         if (i % 9 === 4) addReading(ctx, st, hall, 'vector', { unitPreference: 'si', notes: 'Repeat.' });
       });
     }
+    // Priya: the roof on the fluxgate (Earth's field only, far from every magnet), then a cross-check of some
+    // of Ada's ground-floor stations within the fluxgate's range, the gamma-camera door first.
+    for (const st of placeStations(s2026, 'roof', phoneWalkId, 'surveyor3')) {
+      const taken = addReading(phoneCtx, st, fluxgate, 'magnitude', { unitPreference: 'gauss' });
+      all.push({ ...st, ...taken });
+    }
+    const ground = all.filter((r) => r.levelKey === 'g' && Math.hypot(...r.trueB) < FLUXGATE_RANGE_T);
+    const crossChecked = [ground.find((r) => r.readingId === steelDoorReading)!, ...ground.filter((r) => r.readingId !== steelDoorReading).filter((_, i) => i % 5 === 2).slice(0, 4)];
+    for (const st of crossChecked) addReading(phoneCtx, st, fluxgate, 'magnitude', { unitPreference: 'gauss', notes: 'Cross-check of tablet 1.' });
+
     all.slice(0, 8).forEach((r, i) =>
       decisionRows.push({
         id: id(`survey:2026:decision:${i}`),
@@ -728,15 +816,14 @@ function buildHarrowby(organisationId: string, people: UserIds): RowSet {
         decidedAt: new Date(Date.parse('2026-11-18T09:00:00Z') + i * 30_000),
       }),
     );
-    const gammaStation = all.find((r) => r.spot.roomKey === 'gamma')!;
     decisionRows.push({
       id: id('survey:2026:decision:remeasure'),
       organisationId,
       changeSeq: 0,
       surveyId: id('survey:2026'),
-      fieldReadingId: gammaStation.readingId,
+      fieldReadingId: steelDoorReading!,
       verdict: 'remeasure',
-      note: 'Taken against the steel door frame; please repeat 30 cm into the room.',
+      note: 'Disagrees with the phone cross-check: taken against the steel door frame? Please repeat 30 cm into the room.',
       reviewerUserId: user('reviewer'),
       decidedAt: new Date('2026-11-18T09:30:00Z'),
     });
@@ -821,6 +908,32 @@ function buildHarrowby(organisationId: string, people: UserIds): RowSet {
     }
   }
 
+  // --- 2024: signed off. Fewer levels (the NMR magnet and the ECR tool's level were not walked); the ECR tool
+  // did not exist yet, the NMR magnet was there (installedOn dates in demo-data.ts).
+  signedOffSurvey({
+    plan: {
+      key: '2024',
+      name: '2024 annual fringe-field check',
+      zoneSetKey: 'iec-ed3',
+      startsOn: '2024-11-13',
+      endsOn: '2024-11-22',
+      onDate: '2024-11-13',
+      spacingM: 5,
+      levelKeys: ['b1', 'g'],
+    },
+    notes: 'Annual check of the imaging wing and the cyclotron level. Demo data.',
+    prngSeed: 'harrowby-2024',
+    adaLevels: ['b1', 'g'],
+    bramLevels: [],
+    adaWalk: { startedAt: '2024-11-13T08:45:00Z', endedAt: '2024-11-13T12:20:00Z' },
+    bramWalk: { startedAt: '2024-11-14T09:10:00Z', endedAt: '2024-11-14T12:30:00Z' },
+    outlier: null,
+    crossChecks: 4,
+    decisionsFrom: '2024-11-21T09:00:00Z',
+    submittedAt: '2024-11-21T15:30:00Z',
+    signedOffAt: '2024-11-22T11:00:00Z',
+  });
+
   set.add('surveys', surveys, surveyRows);
   set.add('survey_assignments', surveyAssignments, assignmentRows);
   set.add('walks', walks, walkRows);
@@ -828,7 +941,58 @@ function buildHarrowby(organisationId: string, people: UserIds): RowSet {
   set.add('field_readings', fieldReadings, readingRows);
   set.add('sweeps', sweeps, sweepRows);
   set.add('decisions', decisions, decisionRows);
+  set.afterWrite.push((tx) => finishHarrowby(tx, organisationId, people, signOffs));
   return set;
+}
+
+interface SignOff {
+  surveyKey: string;
+  surveyId: string;
+  signedOffAt: Date;
+}
+
+/** When the flag job would have run over each survey's readings (invented). */
+const FLAGS_COMPUTED_AT: Record<string, string> = {
+  '2024': '2024-11-21T15:45:00Z',
+  '2025': '2025-11-20T16:15:00Z',
+  '2026': '2026-11-17T15:10:00Z',
+};
+
+const findFlag = (rows: FlagRow[], what: string, test: (f: FlagRow) => boolean): FlagRow => {
+  const found = rows.find(test);
+  if (!found) throw new Error(`The demo expects a flag for ${what}; the EMC computation raised: ${rows.map((f) => f.fingerprint).join(', ')}`);
+  return found;
+};
+
+/**
+ * After the rows are written: the flags of every survey, computed by the EMC service; a few of them worked
+ * by the EMC engineer; then the sign-off of the two closed surveys (their reports cover their flags).
+ */
+async function finishHarrowby(tx: Tx, organisationId: string, people: UserIds, signOffs: SignOff[]): Promise<void> {
+  const id = (name: string) => demoId(`${HARROWBY.key}:${name}`);
+  const emc = people.get('emc')!;
+  const roomOf = (key: string) => (f: FlagRow) => f.roomId === id(`room:${key}`);
+  const bandOf = (key: string) => (f: FlagRow) => f.watchBandId === id(`watch-band:${key}`);
+
+  for (const s of signOffs) {
+    const computed = await computeDemoFlags(tx, organisationId, s.surveyId, new Date(FLAGS_COMPUTED_AT[s.surveyKey]!));
+    if (s.surveyKey === '2025') {
+      // Worked and closed before the sign-off, so the signed report carries the resolution.
+      const rfid = findFlag(computed, 'ISM 13.56 MHz in the staff room', (f) => roomOf('staff')(f) && bandOf('ism-13m56')(f) && f.harmonic === 2);
+      const acked = await acknowledgeDemoFlag(tx, rfid, emc, 'Asked estates to test the RFID door readers by the staff room with MR 1 at field. Demo data.', new Date('2025-11-20T16:40:00Z'));
+      await resolveDemoFlag(tx, acked, emc, 'Door readers tested with MR 1 at field: no missed or false reads. Closed. Demo data.', new Date('2025-11-21T09:15:00Z'));
+    }
+    await signOffDemoSurvey(tx, organisationId, s.surveyId, people.get('reviewer')!, s.signedOffAt);
+  }
+
+  // The open survey: most flags still open, one acknowledged (being worked on), one resolved.
+  const open = await computeDemoFlags(tx, organisationId, id('survey:2026'), new Date(FLAGS_COMPUTED_AT['2026']!));
+  // (The etch room's ISM 2.4 GHz flag, the demo's headline, is left open for the EMC engineer to work.)
+  const etchGps = findFlag(open, 'GPS L1 in the etch laboratory', (f) => roomOf('etch')(f) && bandOf('gps-l1')(f) && f.harmonic === 1);
+  await acknowledgeDemoFlag(tx, etchGps, emc, 'Radiopharmacy told (their dispatch clock has a GPS timing receiver); a check of its lock with the etch tool running is booked. Demo data.', new Date('2026-11-18T14:20:00Z'));
+  const mrReceive = findFlag(open, 'the MR 1 receive band in the scanner room', (f) => roomOf('mr1')(f) && bandOf('mr1-receive')(f) && f.harmonic === 1);
+  const acked = await acknowledgeDemoFlag(tx, mrReceive, emc, 'Asked the MR physicist for the scanner’s noise check. Demo data.', new Date('2026-11-18T14:35:00Z'));
+  await resolveDemoFlag(tx, acked, emc, 'No emitter in the scanner room, and the weekly noise check shows nothing at the predicted line: the line is possible, nothing emits it. Demo data.', new Date('2026-11-19T10:05:00Z'));
 }
 
 function buildKestrel(organisationId: string): RowSet {
@@ -851,6 +1015,7 @@ async function seedOrganisation(
   const people = await insertPeople(tx, spec.id, spec.people, hashes);
   const set = build(spec.id, people);
   await writeRowSet(tx, spec.id, set);
+  for (const step of set.afterWrite) await step(tx);
   await recordAudit(tx, {
     organisationId: spec.id,
     actorUserId: null,
