@@ -1,5 +1,6 @@
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
+import { FirstRunGuide } from '@/features/first-run/components/first-run-guide';
 import { SavedDataNote } from '@/features/home/components/saved-data-note';
 import { SiteList } from '@/features/home/components/site-list';
 import { SurveyList } from '@/features/home/components/survey-list';
@@ -54,18 +55,19 @@ export default function HomeRoute() {
           {membership.role === 'surveyor' && surveys.data ? ` · ${mine} ${mine === 1 ? 'survey' : 'surveys'} assigned to you` : ''}
         </p>
       </div>
+      <FirstRunGuide userId={session.user.id} role={membership.role} surveys={surveys.data?.surveys} />
       {!online.online && <SavedDataNote savedAt={savedAt} />}
       <section aria-labelledby="surveys-heading" className="flex flex-col gap-3">
         <h2 id="surveys-heading" className="text-2xl font-bold">
           Surveys
         </h2>
-        {surveys.data ? <SurveyList surveys={surveys.data.surveys} /> : <ListState label="surveys" query={surveys} />}
+        {surveys.data ? <SurveyList surveys={surveys.data.surveys} role={membership.role} /> : <ListState label="surveys" query={surveys} />}
       </section>
       <section aria-labelledby="sites-heading" className="flex flex-col gap-3">
         <h2 id="sites-heading" className="text-2xl font-bold">
           Sites
         </h2>
-        {sites.data ? <SiteList sites={sites.data.sites} /> : <ListState label="sites" query={sites} />}
+        {sites.data ? <SiteList sites={sites.data.sites} role={membership.role} /> : <ListState label="sites" query={sites} />}
       </section>
     </div>
   );

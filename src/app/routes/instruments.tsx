@@ -8,6 +8,7 @@ import { InstrumentForm } from '@/features/site-setup/components/instrument-form
 import { InstrumentsTable } from '@/features/site-setup/components/instruments-table';
 import { QueryState } from '@/features/site-setup/components/query-state';
 import { useSignedIn } from './signed-in-layout';
+import { EmptyState } from '@/components/empty-state';
 
 export default function InstrumentsRoute() {
   const { membership } = useSignedIn();
@@ -50,9 +51,11 @@ export default function InstrumentsRoute() {
       {!instruments.data ? (
         <QueryState label="instruments" query={instruments} />
       ) : list.length === 0 ? (
-        <Alert tone="info" title="No instruments yet">
-          {isAdmin ? 'Add each gaussmeter, analyser and antenna with its serial and calibration due date.' : 'An admin adds instruments here.'}
-        </Alert>
+        <EmptyState title="No instruments yet">
+          {isAdmin
+            ? 'Use “Add instrument” above for each gaussmeter, analyser and antenna, with its serial and calibration due date.'
+            : 'An admin adds the gaussmeters, analysers and antennas here; ask one if yours is missing.'}
+        </EmptyState>
       ) : (
         <InstrumentsTable instruments={list} onEdit={isAdmin ? (instrument) => setEditing(instrument) : undefined} />
       )}

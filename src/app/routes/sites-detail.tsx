@@ -18,6 +18,7 @@ import { SiteSurveysSection } from '@/features/site-setup/components/site-survey
 import { SourcesSection } from '@/features/site-setup/components/sources-section';
 import { showToast } from '@/lib/toast';
 import { useSignedIn } from './signed-in-layout';
+import { EmptyState } from '@/components/empty-state';
 
 export default function SiteDetailRoute() {
   const { siteId = '' } = useParams();
@@ -112,7 +113,9 @@ export default function SiteDetailRoute() {
           Levels and plans
         </h2>
         {levels.length === 0 ? (
-          <p className="text-fg-muted">No levels yet. {canEdit ? 'Add the first one below, then upload its floor plan and calibrate it.' : ''}</p>
+          <EmptyState title="No levels yet">
+            {canEdit ? 'Add the first one below, then upload its floor plan and calibrate it.' : 'An admin or reviewer adds the levels and their plans.'}
+          </EmptyState>
         ) : (
           <ul className="grid grid-cols-1 gap-3 md:grid-cols-2" aria-label="Levels">
             {levels.map((level) => (

@@ -1,6 +1,5 @@
 import { useState } from 'react';
 import { useNavigate } from 'react-router-dom';
-import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { useCreateSite } from '@/features/site-setup/data/create-site';
 import { useSiteList } from '@/features/site-setup/data/list-sites';
@@ -9,6 +8,7 @@ import { SiteForm } from '@/features/site-setup/components/site-form';
 import { SitesTable } from '@/features/site-setup/components/sites-table';
 import { QueryState } from '@/features/site-setup/components/query-state';
 import { useSignedIn } from './signed-in-layout';
+import { EmptyState } from '@/components/empty-state';
 
 export default function SitesRoute() {
   const { membership } = useSignedIn();
@@ -48,9 +48,9 @@ export default function SitesRoute() {
       )}
       {sites.data ? (
         sites.data.sites.length === 0 ? (
-          <Alert tone="info" title="No sites yet">
-            {canEdit ? 'Start with “New site”: give it a name, then add its levels and upload a plan for each.' : 'An admin or reviewer adds sites here.'}
-          </Alert>
+          <EmptyState title="No sites yet">
+            {canEdit ? 'Start with “New site” above: give it a name, then add its levels and upload a plan for each.' : 'An admin or reviewer adds sites here.'}
+          </EmptyState>
         ) : (
           <SitesTable sites={sites.data.sites} />
         )

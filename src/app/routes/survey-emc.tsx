@@ -10,6 +10,7 @@ import type { EmcFlag, EmcRoom } from '@shared/schemas/emc';
 import { DEFAULT_VICTIM_DISTANCE_M } from '@shared/emc/room-lines';
 import { formatFluxDensity } from '@shared/units';
 import { Alert } from '@/components/alert';
+import { EmptyState } from '@/components/empty-state';
 import { DataTable } from '@/components/data-table';
 import { useSurveySummary } from '@/features/capture/data/get-survey-summary';
 import { FlagCard } from '@/features/emc/components/flag-card';
@@ -140,9 +141,15 @@ export default function SurveyEmcRoute() {
         {!flags.data ? (
           <QueryState label="flags" query={flags} />
         ) : shown.length === 0 ? (
-          <Alert tone="ok" title={all.length === 0 ? 'No predicted line falls in a watched band' : `No ${state} flags`}>
-            {all.length === 0 ? 'Check the watch bands list if you expected one.' : 'Choose another filter to see the rest.'}
-          </Alert>
+          all.length === 0 ? (
+            <EmptyState title="No predicted line falls in a watched band" action={canWork ? { to: '/watch-bands', label: 'Check the watched bands list' } : undefined}>
+              {canWork
+                ? 'Flags appear here when a station’s predicted line falls inside a watch band. If you expected one, check the list of bands and the emitters in each room.'
+                : 'Flags appear here when a station’s predicted line falls inside a band the organisation protects. An EMC engineer keeps that list.'}
+            </EmptyState>
+          ) : (
+            <EmptyState title={`No ${state} flags`}>Choose another filter to see the rest.</EmptyState>
+          )
         ) : (
           <div className="flex flex-col gap-3">
             {shown.map((f) => (

@@ -17,6 +17,7 @@ import { QueryState } from '@/features/site-setup/components/query-state';
 import { isApiRequestError } from '@/lib/api';
 import { showToast } from '@/lib/toast';
 import { useSignedIn } from './signed-in-layout';
+import { EmptyState } from '@/components/empty-state';
 
 /** The organisation's watch bands (issue 8 §1): kept by EMC engineers and admins, read by everyone. */
 export default function WatchBandsRoute() {
@@ -85,9 +86,9 @@ export default function WatchBandsRoute() {
       {!bands.data ? (
         <QueryState label="watch bands" query={bands} />
       ) : list.length === 0 ? (
-        <Alert tone="info" title="No watch bands yet">
+        <EmptyState title="No watch bands yet">
           {canEdit ? 'Add the starter set above, import a CSV, or add your own bands.' : 'An EMC engineer or an admin adds the bands this organisation protects.'}
-        </Alert>
+        </EmptyState>
       ) : (
         <>
           <BandSpectrum bands={list} />

@@ -3,6 +3,7 @@ import { Button } from '@/components/button';
 import { SyncStatusBadge } from '@/components/sync-status-badge';
 import { formatFluxDensity, formatFrequency } from '@shared/units';
 import type { WalkEntry } from '../data';
+import { EmptyState } from '@/components/empty-state';
 
 export interface WalkListProps {
   entries: readonly WalkEntry[] | undefined;
@@ -92,7 +93,9 @@ const WalkEntryRow = memo(
 /** This walk's readings and sweeps, newest first, each with edit and delete (a tombstone, after a confirmation). */
 export const WalkList = memo(function WalkList({ entries, stationLabel, remeasureStationIds, onEdit, onDelete, limited = false, onShowAll }: WalkListProps) {
   if (entries === undefined) return <p role="status">Loading this walk…</p>;
-  if (entries.length === 0) return <p className="text-fg-muted">Nothing logged in this walk yet.</p>;
+  if (entries.length === 0) {
+    return <EmptyState title="Nothing logged in this walk yet">Tap the plan to mark a station (or choose one), then save a field reading or a sweep there.</EmptyState>;
+  }
   const readings = entries.filter((e) => e.kind === 'reading').length;
   const sweeps = entries.length - readings;
   return (

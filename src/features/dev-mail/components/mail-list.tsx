@@ -1,5 +1,6 @@
 import type { ReactNode } from 'react';
 import type { DevMailList } from '@shared/schemas/dev-mail';
+import { EmptyState } from '@/components/empty-state';
 
 const URL_PATTERN = /(https?:\/\/[^\s<>"]+)/g;
 
@@ -18,7 +19,9 @@ function Linkified({ text }: { text: string }) {
 }
 
 export function MailList({ messages }: { messages: DevMailList['messages'] }) {
-  if (messages.length === 0) return <p className="text-fg-muted">No e-mail captured yet. Invitations and password resets will appear here.</p>;
+  if (messages.length === 0) {
+    return <EmptyState title="No e-mail captured yet">Invitations and password resets appear here: ask for a password reset from the sign-in screen to see one.</EmptyState>;
+  }
   const newestFirst = [...messages].sort((a, b) => b.receivedAt.localeCompare(a.receivedAt));
   return (
     <ul className="flex flex-col gap-3" aria-label="Captured e-mail">

@@ -1,7 +1,20 @@
+import type { Role } from '@shared/schemas/common';
 import type { SiteSummary } from '@shared/schemas/home';
+import { EmptyState } from '@/components/empty-state';
 
-export function SiteList({ sites }: { sites: SiteSummary[] }) {
-  if (sites.length === 0) return <p className="text-fg-muted">No sites in this organisation yet.</p>;
+/** Who may add sites (the Site setup screen admits admins and reviewers). */
+const SITE_EDITORS: readonly Role[] = ['admin', 'reviewer'];
+
+export function SiteList({ sites, role }: { sites: SiteSummary[]; role: Role }) {
+  if (sites.length === 0) {
+    return SITE_EDITORS.includes(role) ? (
+      <EmptyState title="No sites in this organisation yet" action={{ to: '/sites', label: 'Add the first site' }}>
+        A site is a campus or building with its magnets: add it, then its levels, plans and rooms.
+      </EmptyState>
+    ) : (
+      <EmptyState title="No sites in this organisation yet">An admin or reviewer adds the sites; they appear here.</EmptyState>
+    );
+  }
   return (
     <ul className="grid gap-3 md:grid-cols-2" aria-label="Sites">
       {sites.map((site) => (

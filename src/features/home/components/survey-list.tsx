@@ -1,5 +1,7 @@
 import { Link } from 'react-router-dom';
+import type { Role } from '@shared/schemas/common';
 import type { SurveySummary } from '@shared/schemas/home';
+import { EmptyState } from '@/components/empty-state';
 
 const STATE_LABELS: Record<SurveySummary['state'], string> = {
   open: 'Open',
@@ -19,9 +21,24 @@ function formatDay(isoDate: string | null): string | null {
   return Number.isNaN(date.getTime()) ? isoDate : date.toLocaleDateString(undefined, { day: 'numeric', month: 'short', year: 'numeric' });
 }
 
+/** What to do when there is no survey yet, by who is looking. */
+function NoSurveys({ role }: { role: Role }) {
+  if (role === 'admin' || role === 'reviewer') {
+    return (
+      <EmptyState title="No surveys in this organisation yet" action={{ to: '/sites', label: 'Plan a survey from a site' }}>
+        Open a site, start a survey there and assign its surveyors.
+      </EmptyState>
+    );
+  }
+  if (role === 'surveyor') {
+    return <EmptyState title="No surveys in this organisation yet">When an admin or reviewer adds you to a survey’s team, it appears here, marked “Assigned to you”.</EmptyState>;
+  }
+  return <EmptyState title="No surveys in this organisation yet">An admin or reviewer plans the surveys; they appear here once they exist.</EmptyState>;
+}
+
 /** Surveys of the organisation; the user's own assignments first. */
-export function SurveyList({ surveys }: { surveys: SurveySummary[] }) {
-  if (surveys.length === 0) return <p className="text-fg-muted">No surveys in this organisation yet.</p>;
+export function SurveyList({ surveys, role }: { surveys: SurveySummary[]; role: Role }) {
+  if (surveys.length === 0) return <NoSurveys role={role} />;
   const ordered = [...surveys].sort((a, b) => Number(b.assignedToMe) - Number(a.assignedToMe));
   return (
     <ul className="grid gap-3 md:grid-cols-2" aria-label="Surveys">

@@ -250,7 +250,7 @@ export function ReviewTable({ rows, unit, classCount, selection, onSelectionChan
           )}
         </tbody>
       </table>
-      {tableRows.length === 0 && <p className="p-4 text-fg-muted">No reading matches the filter.</p>}
+      {tableRows.length === 0 && <p className="p-4 text-fg-muted">No reading matches the filter: change or clear the filters to see the rest.</p>}
     </div>
   );
 }

@@ -8,6 +8,7 @@ import { EmissionFigures } from './emission-figures';
 import { EmitterForm } from './emitter-form';
 import { EMITTER_KIND_LABELS, ENERGY_KIND_LABELS } from './labels';
 import { QueryState } from './query-state';
+import { EmptyState } from '@/components/empty-state';
 
 /** Emitters in this level's rooms, with their emitted power, and the form to add or edit one. */
 export function EmittersPanel({ organisationId, siteId, levelId, canEdit }: { organisationId: string; siteId: string; levelId: string; canEdit: boolean }) {
@@ -21,7 +22,7 @@ export function EmittersPanel({ organisationId, siteId, levelId, canEdit }: { or
   return (
     <div className="flex flex-col gap-4">
       {roomList.length === 0 ? (
-        <p className="text-fg-muted">Emitters sit in rooms: draw this level's rooms first (“Rooms” tab).</p>
+        <EmptyState title="No rooms on this level yet">Emitters sit in rooms: draw this level's rooms first (“Rooms” tab).</EmptyState>
       ) : (
         canEdit && editing === null && (
           <div>
@@ -37,7 +38,11 @@ export function EmittersPanel({ organisationId, siteId, levelId, canEdit }: { or
       {!emitters.data ? (
         <QueryState label="emitters" query={emitters} />
       ) : here.length === 0 ? (
-        roomList.length > 0 && <p className="text-fg-muted">No emitters on this level yet: add the discharge lamps, ion gauges and plasma tools of each room.</p>
+        roomList.length > 0 && (
+          <EmptyState title="No emitters on this level yet">
+            {canEdit ? 'Use “Add emitter” for the discharge lamps, ion gauges and plasma tools of each room.' : 'An admin or reviewer adds the discharge lamps, ion gauges and plasma tools of each room.'}
+          </EmptyState>
+        )
       ) : (
         <ul className="grid grid-cols-1 gap-3 md:grid-cols-2" aria-label="Emitters on this level">
           {here.map((emitter) =>

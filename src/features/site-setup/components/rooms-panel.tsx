@@ -22,6 +22,7 @@ import { PlanMap } from './plan-map';
 import { QueryState } from './query-state';
 import { RoomDrawTool, RoomEditTool } from './room-draw-tools';
 import { SelectField } from '@/components/select-field';
+import { EmptyState } from '@/components/empty-state';
 
 const SENSITIVITY_COLOURS: Record<Room['sensitivity'], string> = { none: '#4a5451', low: '#1c716b', medium: '#a15726', high: '#a3261b' };
 
@@ -188,7 +189,7 @@ export function RoomsPanel({ organisationId, siteId, levelId, plan, imageUrl, ca
         {!rooms.data ? (
           <QueryState label="rooms" query={rooms} />
         ) : list.length === 0 ? (
-          <p className="text-fg-muted">No rooms yet. {canEdit ? 'Use “Draw a room” and click its corners on the plan.' : ''}</p>
+          <EmptyState title="No rooms yet">{canEdit ? 'Use “Draw a room” and click its corners on the plan.' : 'An admin or reviewer draws the rooms on this plan.'}</EmptyState>
         ) : (
           <ul className="grid grid-cols-1 gap-3 md:grid-cols-2" aria-label="Rooms">
             {list.map((room) => (

@@ -2,6 +2,7 @@ import { useEmitters } from '../data/list-emitters';
 import { EmissionFigures } from './emission-figures';
 import { EMITTER_KIND_LABELS } from './labels';
 import { QueryState } from './query-state';
+import { EmptyState } from '@/components/empty-state';
 
 /** Every emitter on the site with its emitted power; they are added per room on the level screens. */
 export function SiteEmittersSection({ organisationId, siteId }: { organisationId: string; siteId: string }) {
@@ -14,7 +15,7 @@ export function SiteEmittersSection({ organisationId, siteId }: { organisationId
       {!emitters.data ? (
         <QueryState label="emitters" query={emitters} />
       ) : emitters.data.emitters.length === 0 ? (
-        <p className="text-fg-muted">No emitters yet. Open a level, draw its rooms, then add the lamps, gauges and plasma tools in each room.</p>
+        <EmptyState title="No emitters yet">Open a level, draw its rooms, then add the lamps, gauges and plasma tools in each room.</EmptyState>
       ) : (
         <ul className="grid grid-cols-1 gap-3 md:grid-cols-2" aria-label="Emitters">
           {emitters.data.emitters.map((emitter) => (

@@ -1,6 +1,7 @@
 import { Link } from 'react-router-dom';
 import { useSiteSurveys } from '../data/list-site-surveys';
 import { QueryState } from './query-state';
+import { EmptyState } from '@/components/empty-state';
 
 const STATE_LABELS = { open: 'Open', submitted: 'Submitted for review', signed_off: 'Signed off' } as const;
 
@@ -21,9 +22,13 @@ export function SiteSurveysSection({ organisationId, siteId, canEdit, archived }
       {!surveys.data ? (
         <QueryState label="surveys" query={surveys} />
       ) : surveys.data.length === 0 ? (
-        <p className="text-fg-muted">
-          No surveys on this site yet. {canEdit ? (archived ? 'Bring the site back from the archive to plan one.' : 'Plan one with “New survey” and assign its surveyors.') : ''}
-        </p>
+        <EmptyState title="No surveys on this site yet">
+          {canEdit
+            ? archived
+              ? 'Bring the site back from the archive to plan one.'
+              : 'Plan one with “New survey” and assign its surveyors.'
+            : 'An admin or reviewer plans the surveys of this site.'}
+        </EmptyState>
       ) : (
         <ul className="grid grid-cols-1 gap-3 md:grid-cols-2" aria-label="Surveys on this site">
           {surveys.data.map((survey) => (

@@ -10,6 +10,7 @@ import { ConfirmButton } from '@/components/confirm-button';
 import { QueryState } from './query-state';
 import { SourceForm } from './source-form';
 import { SHIELDING_LABELS, SOURCE_KIND_LABELS, SOURCE_STATE_LABELS } from './labels';
+import { EmptyState } from '@/components/empty-state';
 
 function position(source: Source, levels: Level[]): string {
   const level = levels.find((l) => l.id === source.levelId);
@@ -39,7 +40,11 @@ export function SourcesSection({ organisationId, siteId, levels, canEdit }: { or
       {!sources.data ? (
         <QueryState label="magnets" query={sources} />
       ) : list.length === 0 ? (
-        <p className="text-fg-muted">No magnets yet. {canEdit ? 'Add each MRI, NMR, cyclotron or test magnet, then place it on its plan (its centre is the dipole centre).' : ''}</p>
+        <EmptyState title="No magnets yet">
+          {canEdit
+            ? 'Add each MRI, NMR, cyclotron or test magnet as a source, then place it on its plan (its centre is the dipole centre).'
+            : 'An admin or reviewer adds the magnet sources of this site.'}
+        </EmptyState>
       ) : (
         <ul className="grid grid-cols-1 gap-3 md:grid-cols-2" aria-label="Magnets">
           {list.map((source) =>
