@@ -31,6 +31,15 @@ function Section({ id, title, children, className = '' }: { id: string; title: s
   );
 }
 
+/** A table that scrolls sideways on a narrow screen instead of widening the page (reachable by keyboard). */
+function Wide({ label, children }: { label: string; children: ReactNode }) {
+  return (
+    <div className="relative overflow-x-auto print:overflow-visible" role="region" aria-label={label} tabIndex={0}>
+      {children}
+    </div>
+  );
+}
+
 const th = 'px-2 py-1 text-left font-bold';
 const td = 'px-2 py-1 align-top';
 
@@ -83,7 +92,7 @@ export function ReportView({ report, map }: { report: SurveyReport; map: ReactNo
 
       <Section id="report-signature" title="Signature" className="fw-keep rounded-xl border-2 border-border p-3">
         {status.state === 'signed_off' && status.signedOffBy && status.signedOffAt ? (
-          <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1" data-testid="signature-block">
+          <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 wrap-anywhere" data-testid="signature-block">
             <dt className="font-bold">Signed off by</dt>
             <dd>
               {status.signedOffBy.name} ({people.get(status.signedOffBy.userId)?.email ?? short(status.signedOffBy.userId)})
@@ -112,7 +121,7 @@ export function ReportView({ report, map }: { report: SurveyReport; map: ReactNo
             </dd>
           </dl>
         ) : (
-          <p>Not signed off yet. The hash of the report data as it stands is {report.dataSha256}.</p>
+          <p className="wrap-anywhere">Not signed off yet. The hash of the report data as it stands is {report.dataSha256}.</p>
         )}
         <p className="text-sm text-fg-muted">
           The hash is SHA-256 of the UTF-8 bytes of the RFC 8785 canonical JSON of the report data (GET the report from the API and recompute it).
@@ -145,36 +154,38 @@ export function ReportView({ report, map }: { report: SurveyReport; map: ReactNo
       </Section>
 
       <Section id="report-instruments" title="Instruments">
-        <table className="w-full border-collapse text-sm" data-testid="report-instruments">
-          <thead>
-            <tr>
-              <th className={th}>Instrument</th>
-              <th className={th}>Kind</th>
-              <th className={th}>Calibrated</th>
-              <th className={th}>Due</th>
-              <th className={th}>Certificate</th>
-              <th className={th}>Status at last use</th>
-              <th className={th}>Records</th>
-            </tr>
-          </thead>
-          <tbody>
-            {data.instruments.map((i) => (
-              <tr key={i.id} className="border-t border-border">
-                <td className={td}>
-                  {i.model} · {i.serial}
-                  {i.probe && ` (${i.probe})`}
-                  {i.relativeUncertainty !== null && `, u = ${(i.relativeUncertainty * 100).toPrecision(2)} %`}
-                </td>
-                <td className={td}>{i.kind}</td>
-                <td className={td}>{day(i.calibratedOn)}</td>
-                <td className={td}>{day(i.calibrationDueOn)}</td>
-                <td className={td}>{i.calibrationCertificate ?? '—'}</td>
-                <td className={`${td} ${i.calibration === 'overdue' ? 'font-bold text-danger' : ''}`}>{CAL_WORDS[i.calibration]}</td>
-                <td className={td}>{i.readingCount}</td>
+        <Wide label="Instruments">
+          <table className="w-full border-collapse text-sm" data-testid="report-instruments">
+            <thead>
+              <tr>
+                <th className={th}>Instrument</th>
+                <th className={th}>Kind</th>
+                <th className={th}>Calibrated</th>
+                <th className={th}>Due</th>
+                <th className={th}>Certificate</th>
+                <th className={th}>Status at last use</th>
+                <th className={th}>Records</th>
               </tr>
-            ))}
-          </tbody>
-        </table>
+            </thead>
+            <tbody>
+              {data.instruments.map((i) => (
+                <tr key={i.id} className="border-t border-border">
+                  <td className={td}>
+                    {i.model} · {i.serial}
+                    {i.probe && ` (${i.probe})`}
+                    {i.relativeUncertainty !== null && `, u = ${(i.relativeUncertainty * 100).toPrecision(2)} %`}
+                  </td>
+                  <td className={td}>{i.kind}</td>
+                  <td className={td}>{day(i.calibratedOn)}</td>
+                  <td className={td}>{day(i.calibrationDueOn)}</td>
+                  <td className={td}>{i.calibrationCertificate ?? '—'}</td>
+                  <td className={`${td} ${i.calibration === 'overdue' ? 'font-bold text-danger' : ''}`}>{CAL_WORDS[i.calibration]}</td>
+                  <td className={td}>{i.readingCount}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </Wide>
       </Section>
 
       <Section id="report-map" title="Map with isogauss lines" className="fw-page-break">
@@ -182,129 +193,137 @@ export function ReportView({ report, map }: { report: SurveyReport; map: ReactNo
       </Section>
 
       <Section id="report-rooms" title="Rooms and their highest class">
-        <table className="w-full border-collapse text-sm">
-          <thead>
-            <tr>
-              <th className={th}>Room</th>
-              <th className={th}>Level</th>
-              <th className={th}>Highest |B| (not rejected)</th>
-              <th className={th}>Class</th>
-            </tr>
-          </thead>
-          <tbody>
-            {[...data.rooms].sort((a, b) => (b.maxFieldT ?? -1) - (a.maxFieldT ?? -1)).map((r) => (
-              <tr key={r.id} className="border-t border-border">
-                <td className={td}>{r.name}</td>
-                <td className={td}>{levels.get(r.levelId) ?? '—'}</td>
-                <td className={td}>{fmtT(r.maxFieldT)}</td>
-                <td className={td}>{r.highestClass?.label ?? '—'}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </Section>
-
-      <Section id="report-stations" title="Stations">
-        <table className="w-full border-collapse text-sm" data-testid="report-stations">
-          <thead>
-            <tr>
-              <th className={th}>Station</th>
-              <th className={th}>Level · room</th>
-              <th className={th}>x, y, height (m)</th>
-              <th className={th}>Readings</th>
-              <th className={th}>Highest |B| (not rejected)</th>
-              <th className={th}>Class</th>
-            </tr>
-          </thead>
-          <tbody>
-            {data.stations.map((s) => {
-              const list = (byStation.get(s.id) ?? []).filter((r) => r.decision?.verdict !== 'rejected');
-              const top = list.reduce<(typeof list)[number] | null>((m, r) => (!m || r.fieldT > m.fieldT ? r : m), null);
-              return (
-                <tr key={s.id} className="border-t border-border">
-                  <td className={td}>{s.label ?? short(s.id)}</td>
-                  <td className={td}>
-                    {levels.get(s.levelId) ?? '—'} · {s.roomId ? (rooms.get(s.roomId)?.name ?? '—') : 'outside rooms'}
-                  </td>
-                  <td className={`${td} tabular-nums`}>
-                    {s.xM.toFixed(2)}, {s.yM.toFixed(2)}, {s.heightM.toFixed(2)}
-                  </td>
-                  <td className={td}>{byStation.get(s.id)?.length ?? 0}</td>
-                  <td className={`${td} tabular-nums`}>{top ? `${fmtT(top.fieldT)} (reading ${short(top.id)})` : '—'}</td>
-                  <td className={td}>{top?.safetyClass?.label ?? '—'}</td>
-                </tr>
-              );
-            })}
-          </tbody>
-        </table>
-      </Section>
-
-      <Section id="report-readings" title="Readings and decisions" className="fw-page-break">
-        <table className="w-full border-collapse text-sm" data-testid="report-readings">
-          <thead>
-            <tr>
-              <th className={th}>Reading</th>
-              <th className={th}>Station</th>
-              <th className={th}>Time</th>
-              <th className={th}>|B|</th>
-              <th className={th}>Class</th>
-              <th className={th}>Surveyor</th>
-              <th className={th}>Instrument</th>
-              <th className={th}>Decision</th>
-            </tr>
-          </thead>
-          <tbody>
-            {readingsSorted.map((r) => (
-              <tr key={r.id} className="border-t border-border">
-                <td className={`${td} font-mono`}>{short(r.id)}</td>
-                <td className={td}>{stations.get(r.stationId)?.label ?? short(r.stationId)}</td>
-                <td className={td}>{time(r.measuredAt)}</td>
-                <td className={`${td} tabular-nums`}>
-                  {fmtT(r.fieldT)}
-                  {r.magnitudeT === null && ' (3-axis)'}
-                </td>
-                <td className={td}>{r.safetyClass?.label ?? '—'}</td>
-                <td className={td}>{name(r.surveyorUserId)}</td>
-                <td className={td}>{inst(r.instrumentId)}</td>
-                <td className={td}>
-                  {r.decision ? `${VERDICT_LABELS[r.decision.verdict]} by ${name(r.decision.reviewerUserId)}${r.decision.note ? `: ${r.decision.note}` : ''}` : 'Undecided'}
-                </td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </Section>
-
-      {data.sweeps.length > 0 && (
-        <Section id="report-sweeps" title="Spectrum sweeps">
+        <Wide label="Rooms and their highest class">
           <table className="w-full border-collapse text-sm">
             <thead>
               <tr>
-                <th className={th}>Sweep</th>
-                <th className={th}>Station</th>
-                <th className={th}>Span · RBW</th>
-                <th className={th}>Peaks</th>
-                <th className={th}>Surveyor · analyser</th>
-                <th className={th}>Decision</th>
+                <th className={th}>Room</th>
+                <th className={th}>Level</th>
+                <th className={th}>Highest |B| (not rejected)</th>
+                <th className={th}>Class</th>
               </tr>
             </thead>
             <tbody>
-              {data.sweeps.map((s) => (
-                <tr key={s.id} className="border-t border-border">
-                  <td className={`${td} font-mono`}>{short(s.id)}</td>
-                  <td className={td}>{stations.get(s.stationId)?.label ?? short(s.stationId)}</td>
-                  <td className={td}>
-                    {formatFrequency(s.startHz)} – {formatFrequency(s.stopHz)} · {formatFrequency(s.rbwHz)}
-                  </td>
-                  <td className={td}>{s.peaks.map((p) => `${formatFrequency(p.frequencyHz)} at ${p.levelDbm} dBm`).join('; ') || '—'}</td>
-                  <td className={td}>
-                    {name(s.surveyorUserId)} · {inst(s.analyserId)}
-                  </td>
-                  <td className={td}>{s.decision ? `${VERDICT_LABELS[s.decision.verdict]} by ${name(s.decision.reviewerUserId)}${s.decision.note ? `: ${s.decision.note}` : ''}` : 'Undecided'}</td>
+              {[...data.rooms].sort((a, b) => (b.maxFieldT ?? -1) - (a.maxFieldT ?? -1)).map((r) => (
+                <tr key={r.id} className="border-t border-border">
+                  <td className={td}>{r.name}</td>
+                  <td className={td}>{levels.get(r.levelId) ?? '—'}</td>
+                  <td className={td}>{fmtT(r.maxFieldT)}</td>
+                  <td className={td}>{r.highestClass?.label ?? '—'}</td>
                 </tr>
               ))}
             </tbody>
           </table>
+        </Wide>
+      </Section>
+
+      <Section id="report-stations" title="Stations">
+        <Wide label="Stations">
+          <table className="w-full border-collapse text-sm" data-testid="report-stations">
+            <thead>
+              <tr>
+                <th className={th}>Station</th>
+                <th className={th}>Level · room</th>
+                <th className={th}>x, y, height (m)</th>
+                <th className={th}>Readings</th>
+                <th className={th}>Highest |B| (not rejected)</th>
+                <th className={th}>Class</th>
+              </tr>
+            </thead>
+            <tbody>
+              {data.stations.map((s) => {
+                const list = (byStation.get(s.id) ?? []).filter((r) => r.decision?.verdict !== 'rejected');
+                const top = list.reduce<(typeof list)[number] | null>((m, r) => (!m || r.fieldT > m.fieldT ? r : m), null);
+                return (
+                  <tr key={s.id} className="border-t border-border">
+                    <td className={td}>{s.label ?? short(s.id)}</td>
+                    <td className={td}>
+                      {levels.get(s.levelId) ?? '—'} · {s.roomId ? (rooms.get(s.roomId)?.name ?? '—') : 'outside rooms'}
+                    </td>
+                    <td className={`${td} tabular-nums`}>
+                      {s.xM.toFixed(2)}, {s.yM.toFixed(2)}, {s.heightM.toFixed(2)}
+                    </td>
+                    <td className={td}>{byStation.get(s.id)?.length ?? 0}</td>
+                    <td className={`${td} tabular-nums`}>{top ? `${fmtT(top.fieldT)} (reading ${short(top.id)})` : '—'}</td>
+                    <td className={td}>{top?.safetyClass?.label ?? '—'}</td>
+                  </tr>
+                );
+              })}
+            </tbody>
+          </table>
+        </Wide>
+      </Section>
+
+      <Section id="report-readings" title="Readings and decisions" className="fw-page-break">
+        <Wide label="Readings and decisions">
+          <table className="w-full border-collapse text-sm" data-testid="report-readings">
+            <thead>
+              <tr>
+                <th className={th}>Reading</th>
+                <th className={th}>Station</th>
+                <th className={th}>Time</th>
+                <th className={th}>|B|</th>
+                <th className={th}>Class</th>
+                <th className={th}>Surveyor</th>
+                <th className={th}>Instrument</th>
+                <th className={th}>Decision</th>
+              </tr>
+            </thead>
+            <tbody>
+              {readingsSorted.map((r) => (
+                <tr key={r.id} className="border-t border-border">
+                  <td className={`${td} font-mono`}>{short(r.id)}</td>
+                  <td className={td}>{stations.get(r.stationId)?.label ?? short(r.stationId)}</td>
+                  <td className={td}>{time(r.measuredAt)}</td>
+                  <td className={`${td} tabular-nums`}>
+                    {fmtT(r.fieldT)}
+                    {r.magnitudeT === null && ' (3-axis)'}
+                  </td>
+                  <td className={td}>{r.safetyClass?.label ?? '—'}</td>
+                  <td className={td}>{name(r.surveyorUserId)}</td>
+                  <td className={td}>{inst(r.instrumentId)}</td>
+                  <td className={td}>
+                    {r.decision ? `${VERDICT_LABELS[r.decision.verdict]} by ${name(r.decision.reviewerUserId)}${r.decision.note ? `: ${r.decision.note}` : ''}` : 'Undecided'}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </Wide>
+      </Section>
+
+      {data.sweeps.length > 0 && (
+        <Section id="report-sweeps" title="Spectrum sweeps">
+          <Wide label="Spectrum sweeps">
+            <table className="w-full border-collapse text-sm">
+              <thead>
+                <tr>
+                  <th className={th}>Sweep</th>
+                  <th className={th}>Station</th>
+                  <th className={th}>Span · RBW</th>
+                  <th className={th}>Peaks</th>
+                  <th className={th}>Surveyor · analyser</th>
+                  <th className={th}>Decision</th>
+                </tr>
+              </thead>
+              <tbody>
+                {data.sweeps.map((s) => (
+                  <tr key={s.id} className="border-t border-border">
+                    <td className={`${td} font-mono`}>{short(s.id)}</td>
+                    <td className={td}>{stations.get(s.stationId)?.label ?? short(s.stationId)}</td>
+                    <td className={td}>
+                      {formatFrequency(s.startHz)} – {formatFrequency(s.stopHz)} · {formatFrequency(s.rbwHz)}
+                    </td>
+                    <td className={td}>{s.peaks.map((p) => `${formatFrequency(p.frequencyHz)} at ${p.levelDbm} dBm`).join('; ') || '—'}</td>
+                    <td className={td}>
+                      {name(s.surveyorUserId)} · {inst(s.analyserId)}
+                    </td>
+                    <td className={td}>{s.decision ? `${VERDICT_LABELS[s.decision.verdict]} by ${name(s.decision.reviewerUserId)}${s.decision.note ? `: ${s.decision.note}` : ''}` : 'Undecided'}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </Wide>
         </Section>
       )}
 
@@ -312,31 +331,33 @@ export function ReportView({ report, map }: { report: SurveyReport; map: ReactNo
         {data.flags.length === 0 ? (
           <p>No flags were raised.</p>
         ) : (
-          <table className="w-full border-collapse text-sm" data-testid="report-flags">
-            <thead>
-              <tr>
-                <th className={th}>Kind</th>
-                <th className={th}>Severity</th>
-                <th className={th}>State</th>
-                <th className={th}>Where</th>
-                <th className={th}>Note</th>
-              </tr>
-            </thead>
-            <tbody>
-              {data.flags.map((f) => (
-                <tr key={f.id} className="border-t border-border">
-                  <td className={td}>
-                    {f.kind.replace(/_/g, ' ')}
-                    {f.species && ` · ${f.species} n = ${f.harmonic}`}
-                  </td>
-                  <td className={td}>{f.severity}</td>
-                  <td className={td}>{f.state}</td>
-                  <td className={td}>{f.roomId ? (rooms.get(f.roomId)?.name ?? short(f.roomId)) : f.stationId ? `station ${stations.get(f.stationId)?.label ?? short(f.stationId)}` : '—'}</td>
-                  <td className={td}>{f.resolution ?? f.acknowledgementNote ?? '—'}</td>
+          <Wide label="Flags">
+            <table className="w-full border-collapse text-sm" data-testid="report-flags">
+              <thead>
+                <tr>
+                  <th className={th}>Kind</th>
+                  <th className={th}>Severity</th>
+                  <th className={th}>State</th>
+                  <th className={th}>Where</th>
+                  <th className={th}>Note</th>
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {data.flags.map((f) => (
+                  <tr key={f.id} className="border-t border-border">
+                    <td className={td}>
+                      {f.kind.replace(/_/g, ' ')}
+                      {f.species && ` · ${f.species} n = ${f.harmonic}`}
+                    </td>
+                    <td className={td}>{f.severity}</td>
+                    <td className={td}>{f.state}</td>
+                    <td className={td}>{f.roomId ? (rooms.get(f.roomId)?.name ?? short(f.roomId)) : f.stationId ? `station ${stations.get(f.stationId)?.label ?? short(f.stationId)}` : '—'}</td>
+                    <td className={td}>{f.resolution ?? f.acknowledgementNote ?? '—'}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </Wide>
         )}
       </Section>
 

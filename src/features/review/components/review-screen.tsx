@@ -17,17 +17,18 @@ import { useReviewReadings } from '../data/get-review-readings';
 import { EMPTY_FILTER, filterRows, searchText, type FieldUnit, type ReviewFilter } from '../lib/review-rows';
 import { ConflictsPanel } from './conflicts-panel';
 import { ImportPanel } from './import-panel';
+import { EmptyState } from '@/components/empty-state';
 import { ReviewTable } from './review-table';
 import { SignOffPanel } from './sign-off-panel';
 
 type Verdict = (typeof VERDICTS)[number];
 
-const selectClass = 'min-h-touch rounded-lg border-2 border-field-border bg-surface px-2 text-base text-fg';
+const selectClass = 'min-h-touch max-w-full rounded-lg border-2 border-field-border bg-surface px-2 text-base text-fg';
 
 function Select({ label, value, onChange, children, testId }: { label: string; value: string; onChange: (v: string) => void; children: React.ReactNode; testId?: string }) {
   const id = useId();
   return (
-    <div className="flex flex-col gap-1">
+    <div className="flex min-w-0 max-w-full flex-col gap-1">
       <label htmlFor={id} className="text-sm font-bold">
         {label}
       </label>
@@ -259,7 +260,13 @@ export function ReviewScreen({ organisationId, surveyId, canReview, links }: Rev
             )}
           </div>
         )}
-        <ReviewTable rows={shown} unit={unit} classCount={zoneSet?.thresholds.length ?? 0} selection={selection} onSelectionChange={setSelection} readOnly={readOnly} />
+        {rows.length === 0 ? (
+          <EmptyState title="No readings in this survey yet" action={{ to: `/surveys/${surveyId}/capture`, label: 'Go to capture' }}>
+            Surveyors’ field readings and sweeps appear here once their walks sync.{canReview && status.state === 'open' ? ' Readings taken on another instrument can be imported below.' : ''}
+          </EmptyState>
+        ) : (
+          <ReviewTable rows={shown} unit={unit} classCount={zoneSet?.thresholds.length ?? 0} selection={selection} onSelectionChange={setSelection} readOnly={readOnly} />
+        )}
       </section>
 
       <ConflictsPanel organisationId={organisationId} surveyId={surveyId} readOnly={readOnly} />

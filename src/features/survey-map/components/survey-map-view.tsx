@@ -22,6 +22,7 @@ import { fieldLabel, loadMapUnit, MAP_FIELD_UNITS, saveMapUnit, type MapFieldUni
 import { CompareTable } from './compare-table';
 import { DEFAULT_LAYERS, MapCanvas, type MapLayers } from './map-canvas';
 import { MapLegend } from './map-legend';
+import { EmptyState } from '@/components/empty-state';
 
 export interface SurveyMapViewProps {
   organisationId: string;
@@ -253,9 +254,9 @@ function ComparePanel({ organisationId, map, extraLevels, unit, withId, onWith, 
         <p className="text-fg-muted">No signed-off survey of this site to compare with yet.</p>
       ) : (
         <div className="flex flex-wrap items-end gap-4">
-          <label className="flex flex-col gap-1">
+          <label className="flex min-w-0 max-w-full flex-col gap-1">
             <span className="font-bold">Earlier survey</span>
-            <select className="min-h-touch rounded-lg border-2 border-field-border bg-bg px-3" value={withId} onChange={(e) => onWith(e.target.value)} data-testid="compare-select">
+            <select className="min-h-touch max-w-full rounded-lg border-2 border-field-border bg-bg px-3" value={withId} onChange={(e) => onWith(e.target.value)} data-testid="compare-select">
               <option value="">Not comparing</option>
               {options.map((s) => (
                 <option key={s.id} value={s.id}>
@@ -333,7 +334,13 @@ export function SurveyMapView({ organisationId, surveyId, printable = false }: S
     );
   }
   if (!map) return null;
-  if (map.levels.length === 0) return <Alert title="Nothing to map yet">This survey has no stations and no levels chosen.</Alert>;
+  if (map.levels.length === 0) {
+    return (
+      <EmptyState title="Nothing to map yet">
+        This survey has no stations and no levels chosen. An admin or reviewer chooses the levels in the survey’s setup; surveyors then mark stations and log readings from capture.
+      </EmptyState>
+    );
+  }
 
   const setUnit = (u: MapFieldUnit) => {
     setUnitState(u);
@@ -400,10 +407,10 @@ export function SurveyMapView({ organisationId, surveyId, printable = false }: S
 
       <div className="flex flex-wrap items-end gap-4">
         {map.levels.length > 1 && (
-          <label className="flex flex-col gap-1">
+          <label className="flex min-w-0 max-w-full flex-col gap-1">
             <span className="font-bold">Level</span>
             <select
-              className="min-h-touch rounded-lg border-2 border-field-border bg-bg px-3"
+              className="min-h-touch max-w-full rounded-lg border-2 border-field-border bg-bg px-3"
               value={level.level.id}
               onChange={(e) => {
                 setLevelChoice(e.target.value);
@@ -419,9 +426,9 @@ export function SurveyMapView({ organisationId, surveyId, printable = false }: S
             </select>
           </label>
         )}
-        <label className="flex flex-col gap-1">
+        <label className="flex min-w-0 max-w-full flex-col gap-1">
           <span className="font-bold">Unit</span>
-          <select className="min-h-touch rounded-lg border-2 border-field-border bg-bg px-3" value={unit} onChange={(e) => setUnit(e.target.value as MapFieldUnit)} data-testid="unit-select">
+          <select className="min-h-touch max-w-full rounded-lg border-2 border-field-border bg-bg px-3" value={unit} onChange={(e) => setUnit(e.target.value as MapFieldUnit)} data-testid="unit-select">
             {MAP_FIELD_UNITS.map((u) => (
               <option key={u} value={u}>
                 {u}
@@ -445,6 +452,11 @@ export function SurveyMapView({ organisationId, surveyId, printable = false }: S
       </fieldset>
 
       {level.gridNote && <Alert title="No lines on this level">{level.gridNote}</Alert>}
+      {level.stations.every((st) => st.fieldT === null) && (
+        <EmptyState title={`No field readings on ${level.level.name} yet`} action={{ to: `/surveys/${surveyId}/capture`, label: 'Go to capture' }}>
+          The map draws its safety lines from field readings. Surveyors mark stations on this level and log readings from capture; they show here once synced.
+        </EmptyState>
+      )}
       <div className="grid gap-4 lg:grid-cols-[minmax(0,1fr)_22rem]">
         {canvas(level)}
         <div className="flex flex-col gap-4">
