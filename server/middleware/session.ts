@@ -11,6 +11,36 @@ import './types';
 export const SESSION_COOKIE = 'fw.sid';
 export const SESSION_MAX_AGE_MS = 14 * 24 * 60 * 60 * 1000;
 const PRUNE_INTERVAL_S = 15 * 60;
+/**
+ * A session's stored expiry is moved forward at most once in this long per server instance. The cookie
+ * itself keeps the expiry it was given at sign-in (sessions are not rolling), so touching the row on every
+ * request would only cost a write per request (a push batch is one request among thousands).
+ */
+export const SESSION_TOUCH_INTERVAL_MS = 10 * 60 * 1000;
+const TOUCH_MEMORY_LIMIT = 10_000;
+
+/** Skips store.touch for a session touched less than SESSION_TOUCH_INTERVAL_MS ago by this instance. */
+export function throttleTouch(store: session.Store, now: () => number = Date.now): void {
+  const touch = store.touch?.bind(store);
+  if (!touch) return;
+  const lastTouched = new Map<string, number>();
+  store.touch = (sid, sess, done) => {
+    // express-session passes an error-first callback, whatever the typings say.
+    const callback = done as ((error?: unknown) => void) | undefined;
+    const at = now();
+    const last = lastTouched.get(sid);
+    if (last !== undefined && at - last < SESSION_TOUCH_INTERVAL_MS) {
+      callback?.();
+      return;
+    }
+    if (lastTouched.size >= TOUCH_MEMORY_LIMIT) lastTouched.clear();
+    lastTouched.set(sid, at);
+    touch(sid, sess, (error?: unknown) => {
+      if (error) lastTouched.delete(sid);
+      callback?.(error);
+    });
+  };
+}
 
 export interface SessionSetup {
   middleware: RequestHandler;
@@ -28,6 +58,7 @@ export function createSessionMiddleware(options: { pool: pg.Pool; secret: string
     // A failed prune (database restarting) must not crash the process; the next one will catch up.
     errorLog: () => {},
   });
+  throttleTouch(store);
   const cookieOptions = { httpOnly: true, sameSite: 'lax', secure: options.secure, path: '/' } as const;
   const middleware = session({
     name: SESSION_COOKIE,

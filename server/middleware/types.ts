@@ -18,6 +18,8 @@ declare module 'express-serve-static-core' {
     user?: AuthUser;
     /** Set by requireMember for /api/orgs/:orgId/… routes. */
     membership?: OrgMembership;
+    /** Every organisation role of req.user, read by requireUser with the user. */
+    roles?: OrgMembership[];
     /** Parsed inputs, set by validate(). */
     valid?: { body?: unknown; query?: unknown; params?: unknown };
   }

@@ -75,6 +75,34 @@ describe('sign-in and sign-out', () => {
     expect(await countRows(t.databaseUrl, 'session', `sess->>'userId' = '${session.user.id}'`)).toBe(before - 1);
     expectError(await request(t.app).get('/api/auth/session').set('Cookie', cookie), 401, 'UNAUTHENTICATED');
   });
+
+  it('reads the membership on every request, so a membership taken away applies from the next request', async () => {
+    const { agent, session } = await signIn(t.app, demoEmail('viewer'));
+    const orgId = session.memberships[0]!.organisationId;
+    await agent.get(`/api/orgs/${orgId}/sites`).expect(200);
+    const [taken] = await sql<{ role: string }>(t.databaseUrl, 'DELETE FROM memberships WHERE user_id = $1 AND organisation_id = $2 RETURNING role', [session.user.id, orgId]);
+    try {
+      expectError(await agent.get(`/api/orgs/${orgId}/sites`), 404, 'NOT_FOUND');
+    } finally {
+      await sql(t.databaseUrl, 'INSERT INTO memberships (user_id, organisation_id, role) VALUES ($1, $2, $3)', [session.user.id, orgId, taken!.role]);
+    }
+    await agent.get(`/api/orgs/${orgId}/sites`).expect(200);
+  });
+
+  it('moves a session’s stored expiry forward once, not on every request', async () => {
+    const { agent, session } = await signIn(t.app, demoEmail('emc'));
+    const expiry = async () => (await sql<{ expire: Date }>(t.databaseUrl, `SELECT expire FROM session WHERE sess->>'userId' = $1 ORDER BY expire DESC LIMIT 1`, [session.user.id]))[0]!.expire.getTime();
+    const atSignIn = await expiry();
+    // The store keeps the expiry in whole seconds: wait past one.
+    await new Promise((resolve) => setTimeout(resolve, 1_100));
+    await agent.get('/api/auth/session').expect(200);
+    const touched = await expiry();
+    expect(touched).toBeGreaterThan(atSignIn);
+    await new Promise((resolve) => setTimeout(resolve, 1_100));
+    await agent.get('/api/auth/session').expect(200);
+    await agent.get('/api/auth/session').expect(200);
+    expect(await expiry()).toBe(touched);
+  });
 });
 
 describe('sign-in rate limit', () => {

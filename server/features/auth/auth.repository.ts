@@ -33,13 +33,17 @@ export function createAuthRepository(db: Db) {
       return row ?? null;
     },
 
-    async findMembership(userId: string, organisationId: string): Promise<OrgMembership | null> {
-      const [row] = await db
-        .select({ organisationId: memberships.organisationId, role: memberships.role })
-        .from(memberships)
-        .where(and(eq(memberships.userId, userId), eq(memberships.organisationId, organisationId)))
-        .limit(1);
-      return row ?? null;
+    /** The user and every organisation role they hold, in one query (what each signed-in request needs). */
+    async findUserWithRoles(userId: string): Promise<(AuthUser & { roles: OrgMembership[] }) | null> {
+      const rows = await db
+        .select({ id: users.id, email: users.email, name: users.name, organisationId: memberships.organisationId, role: memberships.role })
+        .from(users)
+        .leftJoin(memberships, eq(memberships.userId, users.id))
+        .where(eq(users.id, userId));
+      const first = rows[0];
+      if (!first) return null;
+      const roles = rows.flatMap((r) => (r.organisationId && r.role ? [{ organisationId: r.organisationId, role: r.role }] : []));
+      return { id: first.id, email: first.email, name: first.name, roles };
     },
 
     async listMemberships(userId: string): Promise<MembershipView[]> {

@@ -36,7 +36,7 @@ export function createAuthService(deps: { repo: AuthRepository; mailer: Mailer; 
     sessionFor,
     hashPassword,
     findUser: repo.findUser,
-    findMembership: repo.findMembership,
+    findUserWithRoles: repo.findUserWithRoles,
 
     /** Checks the credentials; throws 401 INVALID_CREDENTIALS with one message for every failure. */
     async verifyCredentials(email: string, password: string): Promise<AuthUser> {
