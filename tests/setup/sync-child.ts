@@ -3,6 +3,7 @@
  * fetch: signing in, pushing and pulling like a device. Used by the fault tests and the benchmark.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
+import os from 'node:os';
 import path from 'node:path';
 import readline from 'node:readline';
 import { fileURLToPath } from 'node:url';
@@ -22,7 +23,9 @@ export interface ChildServer {
 }
 
 export async function startChildServer(databaseUrl: string, options: { ipc?: boolean } = {}): Promise<ChildServer> {
-  const child = spawn(process.execPath, ['--import', 'tsx', SCRIPT], {
+  // BENCH_PROFILE=1: the server writes a V8 CPU profile (.cpuprofile) into the system temp folder when it stops.
+  const profile = process.env.BENCH_PROFILE ? ['--cpu-prof', `--cpu-prof-dir=${path.join(os.tmpdir(), 'fringewalk-server-profiles')}`] : [];
+  const child = spawn(process.execPath, [...profile, '--import', 'tsx', SCRIPT], {
     cwd: ROOT,
     env: { ...process.env, DATABASE_URL: databaseUrl, SESSION_SECRET: CHILD_SESSION_SECRET, PUBLIC_URL: CHILD_ORIGIN, PORT: '0', NODE_NO_WARNINGS: '1' },
     stdio: options.ipc ? ['ignore', 'pipe', 'pipe', 'ipc'] : ['ignore', 'pipe', 'pipe'],

@@ -22,12 +22,12 @@ import { organisations, users } from './organisations';
 export const syncMutations = pgTable(
   'sync_mutations',
   {
-    organisationId: uuid('organisation_id')
-      .notNull()
-      .references(() => organisations.id),
+    // No foreign keys (like change_log): the organisation comes from the pusher's membership and the user
+    // from their session, both checked on the request; a key check per row would cost more than the row.
+    organisationId: uuid('organisation_id').notNull(),
     mutationId: uuid('mutation_id').notNull(),
     deviceId: text('device_id').notNull(),
-    userId: uuid('user_id').references(() => users.id, { onDelete: 'set null' }),
+    userId: uuid('user_id'),
     entity: text('entity').notNull(),
     recordId: uuid('record_id').notNull(),
     /** The per-mutation answer given the first time (applied or conflict), replayed on a retry. */
