@@ -147,12 +147,15 @@ async function main() {
   const longest: number[] = [];
   const baseline: number[] = [];
   const p95s: number[] = [];
+  const slow: string[] = [];
   for (let run = 0; run < RUNS + 1; run++) {
     const frames = await scrollFrames(page, '[data-testid="review-table-scroll"]', FRAMES);
     const base = await scrollFrames(page, '#bench-baseline', FRAMES);
     if (run === 0) continue; // warm-up
     const sorted = [...frames].sort((a, b) => a - b);
     longest.push(sorted.at(-1)!);
+    // Where the long frames fall (frame number: ms), to tell a steady cost from a one-off pause.
+    slow.push(frames.flatMap((f, i) => (f > 50 ? [`${i}: ${f.toFixed(0)}`] : [])).join(', ') || 'none');
     p95s.push(sorted[Math.ceil(sorted.length * 0.95) - 1]!);
     baseline.push(Math.max(...base));
   }
@@ -177,7 +180,7 @@ async function main() {
   printTable(rows, `Fringewalk review table benchmark — headless Chromium ${browser.version()}, node ${process.version}, ${os.cpus().length} cores`);
   console.log(
     `(longest frames ${longest.map((t) => t.toFixed(1)).join(', ')} ms; p95 ${p95s.map((t) => t.toFixed(1)).join(', ')} ms; baseline longest ${baseline.map((t) => t.toFixed(1)).join(', ')} ms; ` +
-      `${domRows} rows in the DOM; open to table shown ${loadMs} ms)`,
+      `${domRows} rows in the DOM; open to table shown ${loadMs} ms)\n(frames over 50 ms, per run: ${slow.join(' | ')})`,
   );
   if (process.argv.includes('--rows')) console.log(`${BENCH_ROWS_MARKER}${JSON.stringify(rows)}`);
   return rows;

@@ -1,6 +1,7 @@
 /** The review table's filter, note search and value formatting (src/features/review/lib/review-rows.ts). */
 import { describe, expect, it } from 'vitest';
 import type { ReviewReading } from '@shared/schemas/review';
+import { sortReviewRows } from '@/features/review/components/review-table';
 import { EMPTY_FILTER, filterRows, syncText, valueText } from '@/features/review/lib/review-rows';
 
 let n = 0;
@@ -67,5 +68,27 @@ describe('review rows', () => {
     expect(valueText(rows[2]!, 'mT')).toBe('2.300 GHz – 2.600 GHz · 2 peaks');
     expect(syncText(rows[2]!)).toBe('Conflict');
     expect(syncText({ ...rows[0]!, attachmentPending: true })).toBe('Photo missing');
+  });
+});
+
+describe('review table sorting', () => {
+  // Expected orders written out by hand for these few rows (common practice: ties keep their order).
+  const a = reading({ stationLabel: 'b-2', fieldT: 2e-3, measuredAt: '2026-11-17T10:00:00.000Z', notes: 'Door' });
+  const b = reading({ stationLabel: 'A-1', fieldT: null, measuredAt: '2026-11-17T08:00:00.000Z', notes: null });
+  const c = reading({ stationLabel: 'a-3', fieldT: 0.3e-3, measuredAt: '2026-11-17T09:00:00.000Z', notes: 'door' });
+  const d = reading({ stationLabel: 'B-1', fieldT: 2e-3, measuredAt: '2026-11-17T11:00:00.000Z', notes: 'Window' });
+  const rows = [a, b, c, d];
+  const ids = (list: ReviewReading[]) => list.map((r) => r.stationLabel);
+
+  it('sorts text without regard to case, and numbers as numbers, with no value last going down', () => {
+    expect(ids(sortReviewRows(rows, { id: 'station', desc: false }))).toEqual(['A-1', 'a-3', 'B-1', 'b-2']);
+    expect(ids(sortReviewRows(rows, { id: 'value', desc: false }))).toEqual(['A-1', 'a-3', 'b-2', 'B-1']);
+    expect(ids(sortReviewRows(rows, { id: 'value', desc: true }))).toEqual(['b-2', 'B-1', 'a-3', 'A-1']);
+    expect(ids(sortReviewRows(rows, { id: 'time', desc: false }))).toEqual(['A-1', 'a-3', 'b-2', 'B-1']);
+  });
+
+  it('keeps equal keys in their order and leaves the input alone', () => {
+    expect(ids(sortReviewRows(rows, { id: 'notes', desc: false }))).toEqual(['A-1', 'b-2', 'a-3', 'B-1']);
+    expect(ids(rows)).toEqual(['b-2', 'A-1', 'a-3', 'B-1']);
   });
 });

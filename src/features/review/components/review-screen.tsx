@@ -4,7 +4,7 @@
  * survey's sync conflicts; submit, sign-off and reopen with the reasons sign-off is blocked; the CSV
  * export and import.
  */
-import type { RowSelectionState } from '@tanstack/react-table';
+import type { ReviewSelection } from './review-table';
 import { useDeferredValue, useId, useMemo, useState } from 'react';
 import { FIELD_UNITS, type VERDICTS } from '@shared/schemas/vocabulary';
 import { Alert } from '@/components/alert';
@@ -54,7 +54,7 @@ export function ReviewScreen({ organisationId, surveyId, canReview, links }: Rev
   const [unit, setUnit] = useState<FieldUnit>('mT');
   const [filter, setFilter] = useState<ReviewFilter>(EMPTY_FILTER);
   const deferredFilter = useDeferredValue(filter);
-  const [selection, setSelection] = useState<RowSelectionState>({});
+  const [selection, setSelection] = useState<ReviewSelection>({});
   const [pending, setPending] = useState<Exclude<Verdict, 'accepted'> | null>(null);
   const [note, setNote] = useState('');
   const [noteError, setNoteError] = useState<string | null>(null);

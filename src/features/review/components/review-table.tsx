@@ -1,18 +1,27 @@
 /**
- * The review table: every reading of a survey in one sortable table (TanStack Table), drawn a screenful
- * at a time (TanStack Virtual), so 100,000 rows scroll as smoothly as 100. Rows have a fixed height and
- * the columns fixed widths; only the rows in view (plus a few) are in the DOM, between two spacer rows.
- * Every column names its sorting function: TanStack's automatic choice for text is its alphanumeric
- * sort, which splits both strings with a regular expression on every comparison — seconds at 100,000 rows.
+ * The review table: every reading of a survey in one sortable table, drawn a screenful at a time
+ * (TanStack Virtual), so 100,000 rows scroll as smoothly as 100. Rows have a fixed height and the
+ * columns fixed widths; only the rows in view (plus a few) are in the DOM, each placed by a transform
+ * in a box as tall as every row together. It is an ARIA table (role="table", "row", "columnheader",
+ * "cell") of positioned boxes, not a <table>: a table lays out all its rows again whenever one changes.
+ *
+ * Sorting and selection are kept here, over plain arrays, rather than in a table library's row model:
+ * that model gives every row some forty closures of its own and caches its cells for good, which for
+ * 100,000 rows is hundreds of megabytes that the garbage collector walks — whole frames lost while
+ * scrolling. Sorting compares precomputed keys (numbers, or lower-cased text), never a regular
+ * expression per comparison. A row is a memoised component, so a small scroll step draws only the rows
+ * that came into view.
  */
-import { flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type ColumnDef, type RowSelectionState, type SortingState } from '@tanstack/react-table';
 import { useVirtualizer } from '@tanstack/react-virtual';
-import { useMemo, useRef, useState, type Dispatch, type SetStateAction } from 'react';
+import { memo, useCallback, useMemo, useRef, useState, type Dispatch, type ReactNode, type SetStateAction } from 'react';
 import type { ReviewReading } from '@shared/schemas/review';
 import { syncText, valueText, VERDICT_LABELS, type FieldUnit } from '../lib/review-rows';
 
 /** Row height, px: one line of text at the 48 px touch size plus padding. */
 export const REVIEW_ROW_HEIGHT_PX = 56;
+
+/** Which readings are ticked, by reading id (a missing id is not ticked). */
+export type ReviewSelection = Record<string, boolean>;
 
 function classTone(index: number | undefined, count: number): string {
   if (index === undefined) return '';
@@ -29,13 +38,65 @@ function when(iso: string) {
   return TIME_FORMAT.format(new Date(iso));
 }
 
+type ColumnId = 'select' | 'station' | 'room' | 'surveyor' | 'instrument' | 'time' | 'value' | 'class' | 'sync' | 'decision' | 'notes';
+type SortKey = (r: ReviewReading) => string | number;
+
+interface Column {
+  id: ColumnId;
+  header: string;
+  widthPx: number;
+  /** What the column sorts by (text is compared lower-cased); none: not sortable. */
+  sortKey?: SortKey;
+  text?: boolean;
+}
+
+const COLUMNS: readonly Column[] = [
+  { id: 'select', header: '', widthPx: 56 },
+  { id: 'station', header: 'Station', widthPx: 150, sortKey: (r) => r.stationLabel ?? '', text: true },
+  { id: 'room', header: 'Room', widthPx: 140, sortKey: (r) => r.roomName ?? '', text: true },
+  { id: 'surveyor', header: 'Surveyor', widthPx: 140, sortKey: (r) => r.surveyorName, text: true },
+  { id: 'instrument', header: 'Instrument', widthPx: 190, sortKey: (r) => r.instrumentLabel ?? '', text: true },
+  // ISO-8601 UTC times sort as text in time order.
+  { id: 'time', header: 'Time', widthPx: 140, sortKey: (r) => r.measuredAt },
+  { id: 'value', header: 'Value', widthPx: 200, sortKey: (r) => r.fieldT ?? -1 },
+  { id: 'class', header: 'Class', widthPx: 200, sortKey: (r) => r.safetyClass?.index ?? -2 },
+  { id: 'sync', header: 'Sync', widthPx: 130, sortKey: (r) => (r.conflicted ? 2 : 0) + (r.attachmentPending ? 1 : 0) },
+  { id: 'decision', header: 'Decision', widthPx: 200, sortKey: (r) => r.decision?.verdict ?? '' },
+  { id: 'notes', header: 'Notes', widthPx: 240, sortKey: (r) => r.notes ?? '', text: true },
+];
+const TABLE_WIDTH_PX = COLUMNS.reduce((sum, c) => sum + c.widthPx, 0);
+
+export interface ReviewSort {
+  id: ColumnId;
+  desc: boolean;
+}
+
+/** The rows in the order of `sort`; rows with equal keys keep their order (Array.prototype.sort is stable). */
+export function sortReviewRows(rows: readonly ReviewReading[], sort: ReviewSort): ReviewReading[] {
+  const column = COLUMNS.find((c) => c.id === sort.id);
+  if (!column?.sortKey) return [...rows];
+  const key = column.sortKey;
+  const keys = rows.map((r) => {
+    const k = key(r);
+    return column.text && typeof k === 'string' ? k.toLowerCase() : k;
+  });
+  const order = rows.map((_, i) => i);
+  const sign = sort.desc ? -1 : 1;
+  order.sort((a, b) => {
+    const ka = keys[a]!;
+    const kb = keys[b]!;
+    return ka < kb ? -sign : ka > kb ? sign : 0;
+  });
+  return order.map((i) => rows[i]!);
+}
+
 export interface ReviewTableProps {
   rows: ReviewReading[];
   unit: FieldUnit;
   /** Thresholds of the zone set (for the class colour). */
   classCount: number;
-  selection: RowSelectionState;
-  onSelectionChange: Dispatch<SetStateAction<RowSelectionState>>;
+  selection: ReviewSelection;
+  onSelectionChange: Dispatch<SetStateAction<ReviewSelection>>;
   /** Height of the scrolling area (CSS length). */
   height?: string;
   /** Rows are not selectable (a signed-off survey). */
@@ -43,214 +104,181 @@ export interface ReviewTableProps {
 }
 
 export function ReviewTable({ rows, unit, classCount, selection, onSelectionChange, height = '70vh', readOnly = false }: ReviewTableProps) {
-  const [sorting, setSorting] = useState<SortingState>([{ id: 'time', desc: false }]);
-  const columns = useMemo<ColumnDef<ReviewReading>[]>(
-    () => [
-      {
-        id: 'select',
-        size: 56,
-        enableSorting: false,
-        header: ({ table }) => (
-          <input
-            type="checkbox"
-            aria-label="Select every reading shown"
-            className="h-6 w-6"
-            disabled={readOnly}
-            checked={table.getIsAllRowsSelected()}
-            ref={(el) => {
-              if (el) el.indeterminate = table.getIsSomeRowsSelected();
-            }}
-            onChange={table.getToggleAllRowsSelectedHandler()}
-            data-testid="select-all"
-          />
-        ),
-        cell: ({ row }) => (
-          <input
-            type="checkbox"
-            aria-label={`Select the ${row.original.kind === 'sweep' ? 'sweep' : 'reading'} at station ${row.original.stationLabel ?? row.original.stationId.slice(0, 8)}, ${when(row.original.measuredAt)}`}
-            className="h-6 w-6"
-            disabled={readOnly}
-            checked={row.getIsSelected()}
-            onChange={row.getToggleSelectedHandler()}
-            data-testid="select-row"
-          />
-        ),
-      },
-      {
-        id: 'station',
-        header: 'Station',
-        size: 150,
-        accessorFn: (r) => r.stationLabel ?? '',
-        sortingFn: 'text',
-        cell: ({ row }) => (
-          <span>
-            <span className="font-bold">{row.original.stationLabel ?? row.original.stationId.slice(0, 8)}</span>
-            <span className="block truncate text-sm text-fg-muted">{row.original.levelName}</span>
-          </span>
-        ),
-      },
-      { id: 'room', header: 'Room', size: 140, accessorFn: (r) => r.roomName ?? '', sortingFn: 'text', cell: ({ getValue }) => (getValue<string>() || <span className="text-fg-muted">—</span>) },
-      { id: 'surveyor', header: 'Surveyor', size: 140, accessorFn: (r) => r.surveyorName, sortingFn: 'text' },
-      {
-        id: 'instrument',
-        header: 'Instrument',
-        size: 190,
-        accessorFn: (r) => r.instrumentLabel ?? '',
-        sortingFn: 'text',
-        cell: ({ row }) => (
-          <span>
-            <span className="block truncate">{row.original.instrumentLabel ?? <span className="text-fg-muted">not recorded</span>}</span>
-            {row.original.calibrationOverdue && (
-              <span className="text-sm font-bold text-danger" data-testid="calibration-overdue">
-                Calibration overdue (due {row.original.calibrationDueOn})
-              </span>
-            )}
-          </span>
-        ),
-      },
-      { id: 'time', header: 'Time', size: 140, accessorFn: (r) => r.measuredAt, sortingFn: 'basic', cell: ({ getValue }) => when(getValue<string>()) },
-      {
-        id: 'value',
-        header: `Value (${unit})`,
-        size: 200,
-        accessorFn: (r) => r.fieldT ?? -1,
-        sortingFn: 'basic',
-        cell: ({ row }) => <span className="tabular-nums">{valueText(row.original, unit)}</span>,
-      },
-      {
-        id: 'class',
-        header: 'Class',
-        size: 200,
-        accessorFn: (r) => r.safetyClass?.index ?? -2,
-        sortingFn: 'basic',
-        cell: ({ row }) =>
-          row.original.safetyClass ? (
-            <span className={`block truncate border-l-4 pl-2 ${classTone(row.original.safetyClass.index, classCount)}`} title={row.original.safetyClass.label}>
-              {row.original.safetyClass.label}
-            </span>
-          ) : (
-            <span className="text-fg-muted">—</span>
-          ),
-      },
-      {
-        id: 'sync',
-        header: 'Sync',
-        size: 130,
-        accessorFn: (r) => (r.conflicted ? 2 : 0) + (r.attachmentPending ? 1 : 0),
-        sortingFn: 'basic',
-        cell: ({ row }) => <span className={row.original.conflicted || row.original.attachmentPending ? 'font-bold text-warning' : 'text-fg-muted'}>{syncText(row.original)}</span>,
-      },
-      {
-        id: 'decision',
-        header: 'Decision',
-        size: 200,
-        accessorFn: (r) => r.decision?.verdict ?? '',
-        sortingFn: 'basic',
-        cell: ({ row }) => {
-          const d = row.original.decision;
-          if (!d) return <span className="text-fg-muted">Undecided</span>;
-          return (
-            <span title={d.note ?? undefined}>
-              <span className={`font-bold ${verdictTone[d.verdict]}`}>{VERDICT_LABELS[d.verdict]}</span>
-              {d.note && <span className="block truncate text-sm text-fg-muted">{d.note}</span>}
-            </span>
-          );
-        },
-      },
-      { id: 'notes', header: 'Notes', size: 240, accessorFn: (r) => r.notes ?? '', sortingFn: 'text', cell: ({ getValue }) => <span className="block truncate" title={getValue<string>()}>{getValue<string>()}</span> },
-    ],
-    [unit, classCount, readOnly],
-  );
+  const [sort, setSort] = useState<ReviewSort>({ id: 'time', desc: false });
+  const sorted = useMemo(() => sortReviewRows(rows, sort), [rows, sort]);
+  const selectedShown = useMemo(() => rows.reduce((n, r) => n + (selection[r.id] ? 1 : 0), 0), [rows, selection]);
+  const allSelected = rows.length > 0 && selectedShown === rows.length;
+  const someSelected = selectedShown > 0 && !allSelected;
 
-  const table = useReactTable({
-    data: rows,
-    columns,
-    state: { sorting, rowSelection: selection },
-    getRowId: (r) => r.id,
-    enableRowSelection: !readOnly,
-    onSortingChange: setSorting,
-    onRowSelectionChange: onSelectionChange,
-    getCoreRowModel: getCoreRowModel(),
-    getSortedRowModel: getSortedRowModel(),
-  });
-  const tableRows = table.getRowModel().rows;
+  const toggleRow = useCallback(
+    (id: string) =>
+      onSelectionChange((prev) => {
+        const next = { ...prev };
+        if (next[id]) delete next[id];
+        else next[id] = true;
+        return next;
+      }),
+    [onSelectionChange],
+  );
+  const toggleAll = () => onSelectionChange(allSelected ? {} : Object.fromEntries(rows.map((r) => [r.id, true])));
+  const toggleSort = (id: ColumnId) => setSort((prev) => (prev.id === id ? { id, desc: !prev.desc } : { id, desc: false }));
+
   const scrollRef = useRef<HTMLDivElement>(null);
   const virtualizer = useVirtualizer({
-    count: tableRows.length,
+    count: sorted.length,
     getScrollElement: () => scrollRef.current,
     estimateSize: () => REVIEW_ROW_HEIGHT_PX,
-    overscan: 6,
+    overscan: 3,
   });
   const items = virtualizer.getVirtualItems();
-  const before = items[0]?.start ?? 0;
-  const after = virtualizer.getTotalSize() - (items.at(-1)?.end ?? 0);
-  const width = table.getTotalSize();
 
   return (
-    <div ref={scrollRef} className="relative overflow-auto rounded-xl border border-border bg-surface" style={{ height }} data-testid="review-table-scroll">
-      <table className="border-collapse text-left" style={{ width, tableLayout: 'fixed' }} aria-label="Readings of the survey" aria-rowcount={tableRows.length + 1} data-testid="review-table">
-        <colgroup>
-          {table.getVisibleLeafColumns().map((c) => (
-            <col key={c.id} style={{ width: c.getSize() }} />
-          ))}
-        </colgroup>
-        <thead className="sticky top-0 z-10 bg-surface-sunken">
-          {table.getHeaderGroups().map((group) => (
-            <tr key={group.id}>
-              {group.headers.map((header) => {
-                const sorted = header.column.getIsSorted();
+    // contain: strict keeps each scroll step's layout and paint inside the table's own box (its height is fixed).
+    <div ref={scrollRef} className="relative overflow-auto rounded-xl border border-border bg-surface" style={{ height, contain: 'strict' }} data-testid="review-table-scroll">
+      {/* ARIA table roles on positioned boxes: each row is laid out alone, which a <table> cannot do. */}
+      <div role="table" className="text-left" style={{ width: TABLE_WIDTH_PX }} aria-label="Readings of the survey" aria-rowcount={sorted.length + 1} data-testid="review-table">
+        <div role="rowgroup" className="sticky top-0 z-10 bg-surface-sunken">
+          <div role="row" aria-rowindex={1} className="flex">
+            {COLUMNS.map((column) => {
+              if (column.id === 'select') {
                 return (
-                  <th key={header.id} scope="col" className="px-2 py-1 font-bold" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}>
-                    {header.column.getCanSort() ? (
-                      <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex min-h-touch items-center gap-1 font-bold text-fg hover:underline">
-                        {flexRender(header.column.columnDef.header, header.getContext())}
-                        <span aria-hidden="true">{sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}</span>
-                      </button>
-                    ) : (
-                      flexRender(header.column.columnDef.header, header.getContext())
-                    )}
-                  </th>
+                  <div key={column.id} role="columnheader" className="flex shrink-0 items-center px-2 py-1 font-bold" style={{ width: column.widthPx }}>
+                    <input
+                      type="checkbox"
+                      aria-label="Select every reading shown"
+                      className="h-6 w-6"
+                      disabled={readOnly}
+                      checked={allSelected}
+                      ref={(el) => {
+                        if (el) el.indeterminate = someSelected;
+                      }}
+                      onChange={toggleAll}
+                      data-testid="select-all"
+                    />
+                  </div>
                 );
-              })}
-            </tr>
-          ))}
-        </thead>
-        <tbody>
-          {before > 0 && (
-            <tr aria-hidden="true">
-              <td style={{ height: before, padding: 0 }} colSpan={columns.length} />
-            </tr>
-          )}
+              }
+              const direction = sort.id === column.id ? (sort.desc ? 'descending' : 'ascending') : undefined;
+              return (
+                <div key={column.id} role="columnheader" className="flex shrink-0 items-center px-2 py-1 font-bold" style={{ width: column.widthPx }} aria-sort={direction}>
+                  <button type="button" onClick={() => toggleSort(column.id)} className="inline-flex min-h-touch items-center gap-1 font-bold text-fg hover:underline">
+                    {column.id === 'value' ? `Value (${unit})` : column.header}
+                    <span aria-hidden="true">{direction === 'ascending' ? '▲' : direction === 'descending' ? '▼' : '↕'}</span>
+                  </button>
+                </div>
+              );
+            })}
+          </div>
+        </div>
+        <div role="rowgroup" className="relative" style={{ height: virtualizer.getTotalSize() }}>
           {items.map((item) => {
-            const row = tableRows[item.index]!;
-            return (
-              <tr
-                key={row.id}
-                aria-rowindex={item.index + 2}
-                className={`border-t border-border ${row.getIsSelected() ? 'bg-accent-soft' : ''}`}
-                style={{ height: REVIEW_ROW_HEIGHT_PX }}
-                data-testid="review-row"
-                data-reading-id={row.original.id}
-                data-station-label={row.original.stationLabel ?? ''}
-                data-level-name={row.original.levelName}
-                data-verdict={row.original.decision?.verdict ?? 'undecided'}
-              >
-                {row.getVisibleCells().map((cell) => (
-                  <td key={cell.id} className="overflow-hidden px-2 align-middle whitespace-nowrap">
-                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
-                  </td>
-                ))}
-              </tr>
-            );
+            const reading = sorted[item.index]!;
+            return <ReviewRow key={reading.id} reading={reading} rowIndex={item.index} top={item.start} selected={selection[reading.id] === true} onToggle={toggleRow} unit={unit} classCount={classCount} readOnly={readOnly} />;
           })}
-          {after > 0 && (
-            <tr aria-hidden="true">
-              <td style={{ height: after, padding: 0 }} colSpan={columns.length} />
-            </tr>
-          )}
-        </tbody>
-      </table>
-      {tableRows.length === 0 && <p className="p-4 text-fg-muted">No reading matches the filter: change or clear the filters to see the rest.</p>}
+        </div>
+      </div>
+      {sorted.length === 0 && <p className="p-4 text-fg-muted">No reading matches the filter: change or clear the filters to see the rest.</p>}
     </div>
   );
 }
+
+interface CellInput {
+  r: ReviewReading;
+  selected: boolean;
+  onToggle: (id: string) => void;
+  unit: FieldUnit;
+  classCount: number;
+  readOnly: boolean;
+}
+
+const muted = (text: string) => <span className="text-fg-muted">{text}</span>;
+
+/** What each column shows for one reading. */
+const CELLS: Record<ColumnId, (input: CellInput) => ReactNode> = {
+  select: ({ r, selected, onToggle, readOnly }) => (
+    <input
+      type="checkbox"
+      aria-label={`Select the ${r.kind === 'sweep' ? 'sweep' : 'reading'} at station ${r.stationLabel ?? r.stationId.slice(0, 8)}, ${when(r.measuredAt)}`}
+      className="h-6 w-6"
+      disabled={readOnly}
+      checked={selected}
+      onChange={() => onToggle(r.id)}
+      data-testid="select-row"
+    />
+  ),
+  station: ({ r }) => (
+    <span>
+      <span className="font-bold">{r.stationLabel ?? r.stationId.slice(0, 8)}</span>
+      <span className="block truncate text-sm text-fg-muted">{r.levelName}</span>
+    </span>
+  ),
+  room: ({ r }) => r.roomName || muted('—'),
+  surveyor: ({ r }) => r.surveyorName,
+  instrument: ({ r }) => (
+    <span>
+      <span className="block truncate">{r.instrumentLabel ?? muted('not recorded')}</span>
+      {r.calibrationOverdue && (
+        <span className="text-sm font-bold text-danger" data-testid="calibration-overdue">
+          Calibration overdue (due {r.calibrationDueOn})
+        </span>
+      )}
+    </span>
+  ),
+  time: ({ r }) => when(r.measuredAt),
+  value: ({ r, unit }) => <span className="tabular-nums">{valueText(r, unit)}</span>,
+  class: ({ r, classCount }) =>
+    r.safetyClass ? (
+      <span className={`block truncate border-l-4 pl-2 ${classTone(r.safetyClass.index, classCount)}`} title={r.safetyClass.label}>
+        {r.safetyClass.label}
+      </span>
+    ) : (
+      muted('—')
+    ),
+  sync: ({ r }) => <span className={r.conflicted || r.attachmentPending ? 'font-bold text-warning' : 'text-fg-muted'}>{syncText(r)}</span>,
+  decision: ({ r }) => {
+    const d = r.decision;
+    if (!d) return muted('Undecided');
+    return (
+      <span title={d.note ?? undefined}>
+        <span className={`font-bold ${verdictTone[d.verdict]}`}>{VERDICT_LABELS[d.verdict]}</span>
+        {d.note && <span className="block truncate text-sm text-fg-muted">{d.note}</span>}
+      </span>
+    );
+  },
+  notes: ({ r }) => (
+    <span className="block truncate" title={r.notes ?? ''}>
+      {r.notes ?? ''}
+    </span>
+  ),
+};
+
+interface ReviewRowProps extends CellInput {
+  reading: ReviewReading;
+  rowIndex: number;
+  /** Offset from the top of the rows, px. */
+  top: number;
+}
+
+const ReviewRow = memo(function ReviewRow({ reading: r, rowIndex, top, ...rest }: Omit<ReviewRowProps, 'r'>) {
+  const input: CellInput = { r, ...rest };
+  return (
+    <div
+      role="row"
+      aria-rowindex={rowIndex + 2}
+      aria-selected={rest.readOnly ? undefined : rest.selected}
+      className={`absolute left-0 flex border-t border-border ${rest.selected ? 'bg-accent-soft' : ''}`}
+      style={{ height: REVIEW_ROW_HEIGHT_PX, width: TABLE_WIDTH_PX, transform: `translateY(${top}px)`, contain: 'layout paint' }}
+      data-testid="review-row"
+      data-reading-id={r.id}
+      data-station-label={r.stationLabel ?? ''}
+      data-level-name={r.levelName}
+      data-verdict={r.decision?.verdict ?? 'undecided'}
+    >
+      {COLUMNS.map((c) => (
+        <div key={c.id} role="cell" className="flex shrink-0 items-center overflow-hidden px-2 whitespace-nowrap" style={{ width: c.widthPx }}>
+          <div className="min-w-0">{CELLS[c.id](input)}</div>
+        </div>
+      ))}
+    </div>
+  );
+});
