@@ -2,6 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import type { ReviewReading } from '@shared/schemas/review';
 import { sortReviewRows } from '@/features/review/components/review-table';
+import { shareRepeatedValues } from '@/features/review/data/get-review-readings';
 import { EMPTY_FILTER, filterRows, syncText, valueText } from '@/features/review/lib/review-rows';
 
 let n = 0;
@@ -90,5 +91,18 @@ describe('review table sorting', () => {
   it('keeps equal keys in their order and leaves the input alone', () => {
     expect(ids(sortReviewRows(rows, { id: 'notes', desc: false }))).toEqual(['A-1', 'b-2', 'a-3', 'B-1']);
     expect(ids(rows)).toEqual(['b-2', 'A-1', 'a-3', 'B-1']);
+  });
+});
+
+describe('sharing repeated values of a large answer', () => {
+  it('changes no value, and rows of one class share one class object', () => {
+    // Parsed from JSON, as the answer arrives: every row has its own copies.
+    const rows = JSON.parse(JSON.stringify([reading({ levelName: 'Ground' }), reading({ levelName: 'Ground' }), reading({ safetyClass: { index: 2, label: 'Projectile risk' } })])) as ReviewReading[];
+    const before = structuredClone(rows);
+    expect(rows[0]!.safetyClass).not.toBe(rows[1]!.safetyClass);
+    shareRepeatedValues(rows);
+    expect(rows).toEqual(before);
+    expect(rows[0]!.safetyClass).toBe(rows[1]!.safetyClass);
+    expect(rows[2]!.safetyClass).not.toBe(rows[0]!.safetyClass);
   });
 });
