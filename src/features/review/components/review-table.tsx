@@ -212,8 +212,8 @@ const CELLS: Record<ColumnId, (input: CellInput) => ReactNode> = {
       <span className="block truncate text-sm text-fg-muted">{r.levelName}</span>
     </span>
   ),
-  room: ({ r }) => r.roomName || muted('—'),
-  surveyor: ({ r }) => r.surveyorName,
+  room: ({ r }) => (r.roomName ? <span className="block truncate">{r.roomName}</span> : muted('—')),
+  surveyor: ({ r }) => <span className="block truncate">{r.surveyorName}</span>,
   instrument: ({ r }) => (
     <span>
       <span className="block truncate">{r.instrumentLabel ?? muted('not recorded')}</span>
