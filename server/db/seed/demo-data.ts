@@ -364,8 +364,16 @@ export const HARROWBY_INSTRUMENTS: InstrumentSpec[] = [
   },
 ];
 
-const CAUTION =
-  'Thresholds differ by jurisdiction and by implant. This supports, and does not replace, the site MR safety officer, radiation-protection adviser and local rules.';
+/**
+ * What each line asks of people, one sentence each (common practice, worded for the demo). The general
+ * caution (thresholds differ by jurisdiction and implant; the site MR safety officer decides) is the
+ * app's own and shows beside these, so it is not repeated here.
+ */
+const CAUTIONS = {
+  equipment: 'Watches, cards, pumps and sensitive instruments may be disturbed past this line: keep such equipment outside unless it has been cleared.',
+  implants: 'People with pacemakers or other active implants stay outside this line unless the MR safety officer has cleared them.',
+  projectile: 'Ferromagnetic objects can be pulled toward the magnet past this line: only MR-safe or MR-conditional equipment goes further.',
+} as const;
 
 export interface ZoneSetSpec {
   key: string;
@@ -383,9 +391,9 @@ export const HARROWBY_ZONE_SETS: ZoneSetSpec[] = [
     edition: 'IEC 60601-2-33:2022 (ed. 4)',
     isDefault: true,
     thresholds: [
-      { name: 'Sensitive equipment disturbed (common practice)', fieldT: 1e-4, caution: CAUTION },
-      { name: 'B0 hazard boundary: people with implants stay outside', fieldT: 9e-4, caution: CAUTION },
-      { name: 'Projectile risk (common practice; 2013/35/EU action level)', fieldT: 3e-3, caution: CAUTION },
+      { name: 'Sensitive equipment disturbed (common practice)', fieldT: 1e-4, caution: CAUTIONS.equipment },
+      { name: 'B0 hazard boundary: people with implants stay outside', fieldT: 9e-4, caution: CAUTIONS.implants },
+      { name: 'Projectile risk (common practice; 2013/35/EU action level)', fieldT: 3e-3, caution: CAUTIONS.projectile },
     ],
     notes: 'Edition 4 (2022) moved the B0 hazard boundary to 0.9 mT (REFERENCES.md). 3 mT from 2013/35/EU Annex II, recalled.',
   },
@@ -395,9 +403,9 @@ export const HARROWBY_ZONE_SETS: ZoneSetSpec[] = [
     edition: 'IEC 60601-2-33, editions up to 2015',
     isDefault: false,
     thresholds: [
-      { name: 'Sensitive equipment disturbed (common practice)', fieldT: 1e-4, caution: CAUTION },
-      { name: 'Controlled-access boundary: people with implants stay outside', fieldT: 5e-4, caution: CAUTION },
-      { name: 'Projectile risk (common practice; 2013/35/EU action level)', fieldT: 3e-3, caution: CAUTION },
+      { name: 'Sensitive equipment disturbed (common practice)', fieldT: 1e-4, caution: CAUTIONS.equipment },
+      { name: 'Controlled-access boundary: people with implants stay outside', fieldT: 5e-4, caution: CAUTIONS.implants },
+      { name: 'Projectile risk (common practice; 2013/35/EU action level)', fieldT: 3e-3, caution: CAUTIONS.projectile },
     ],
     notes: 'Editions up to 2015 bound the controlled-access area at 0.5 mT (REFERENCES.md).',
   },
