@@ -370,9 +370,9 @@ export const HARROWBY_INSTRUMENTS: InstrumentSpec[] = [
  * app's own and shows beside these, so it is not repeated here.
  */
 const CAUTIONS = {
-  equipment: 'Watches, cards, pumps and sensitive instruments may be disturbed past this line: keep such equipment outside unless it has been cleared.',
-  implants: 'People with pacemakers or other active implants stay outside this line unless the MR safety officer has cleared them.',
-  projectile: 'Ferromagnetic objects can be pulled toward the magnet past this line: only MR-safe or MR-conditional equipment goes further.',
+  equipment: 'Sensitive-equipment line: watches, cards, pumps and sensitive instruments may be disturbed beyond it; keep such equipment outside unless it has been cleared.',
+  implants: 'Implant line: people with pacemakers or other active implants stay outside it unless the MR safety officer has cleared them.',
+  projectile: 'Projectile line: ferromagnetic objects can be pulled toward the magnet beyond it; only MR-safe or MR-conditional equipment goes further.',
 } as const;
 
 export interface ZoneSetSpec {
