@@ -1,5 +1,5 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import { ReviewStatusSchema } from '@shared/schemas/review';
+import { ReviewStatusSchema, type ReviewReadings } from '@shared/schemas/review';
 import { api } from '@/lib/api';
 import { reviewKeys, surveyPath } from './review-keys';
 
@@ -15,6 +15,9 @@ export function useChangeSurveyState(organisationId: string, surveyId: string) {
   const client = useQueryClient();
   return useMutation({
     mutationFn: (change: SurveyStateChange) => changeSurveyState(organisationId, surveyId, change),
+    // The answer is the survey's new status: show it at once rather than after the readings are fetched
+    // again (a large survey's table takes seconds); the refetch below brings the rest.
+    onSuccess: (status) => client.setQueryData<ReviewReadings>(reviewKeys.readings(organisationId, surveyId), (old) => (old ? { ...old, status } : old)),
     onSettled: () => client.invalidateQueries({ queryKey: reviewKeys.survey(organisationId, surveyId) }),
   });
 }
