@@ -11,6 +11,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { build } from 'vite';
+import type { BenchRow } from './harness';
 import { createApp } from '../../server/app';
 import { createDb } from '../../server/db/client';
 import { freePort, makeThrowawayDir, startLocalPostgres } from '../../server/db/local-postgres';
@@ -28,6 +29,29 @@ const root = fileURLToPath(new URL('../..', import.meta.url));
 
 /** Debian's Chromium, headless, with nothing of its own running in the background. */
 export const CHROMIUM_ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+
+/**
+ * Runs a browser benchmark's main: cleans up afterwards, on failure and on Ctrl-C or a timeout (so no
+ * browser, cluster or temp folder is left behind), and with --strict exits non-zero when a goal is missed.
+ */
+export function runBrowserBench(main: () => Promise<BenchRow[]>, cleanups: Cleanups): void {
+  const cleanup = () => runCleanups(cleanups);
+  for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+    process.once(signal, () => {
+      void cleanup().finally(() => process.exit(130));
+    });
+  }
+  main()
+    .then(async (rows) => {
+      await cleanup();
+      if (process.argv.includes('--strict') && rows.some((r) => !r.pass)) process.exit(1);
+    })
+    .catch(async (error: unknown) => {
+      console.error(error);
+      await cleanup();
+      process.exit(1);
+    });
+}
 
 /** Runs the cleanups last-in first-out, carrying on past a failing one. */
 export async function runCleanups(cleanups: Cleanups): Promise<void> {

@@ -15,7 +15,7 @@
 import os from 'node:os';
 import path from 'node:path';
 import { chromium, type CDPSession, type Page } from 'playwright-core';
-import { buildBenchClient, CHROMIUM_ARGS, runCleanups, startBenchServer, type Cleanups } from './bench-app';
+import { buildBenchClient, CHROMIUM_ARGS, runBrowserBench, startBenchServer, type Cleanups } from './bench-app';
 import { BENCH_ROWS_MARKER, printTable, type BenchRow } from './harness';
 
 const SURVEY_NAME = '2026 annual fringe-field check';
@@ -25,7 +25,6 @@ const PLAN_STATIONS = 5_000;
 const PAINT_RUNS = 7;
 
 const cleanups: Cleanups = [];
-const cleanup = () => runCleanups(cleanups);
 
 function quantile(sorted: number[], q: number): number {
   const i = Math.min(sorted.length - 1, Math.max(0, Math.ceil(q * sorted.length) - 1));
@@ -301,20 +300,4 @@ function row(figure: string, goal: number, measured: number, baseline: number): 
   return { figure, goal, measured, baseline, ratio: baseline > 0 ? measured / baseline : Infinity, pass: measured <= goal };
 }
 
-// Ctrl-C or a timeout must not leave the browser, the cluster or the temp folders behind.
-for (const signal of ['SIGINT', 'SIGTERM'] as const) {
-  process.once(signal, () => {
-    void cleanup().finally(() => process.exit(130));
-  });
-}
-
-main()
-  .then(async (rows) => {
-    await cleanup();
-    if (process.argv.includes('--strict') && rows.some((r) => !r.pass)) process.exit(1);
-  })
-  .catch(async (error: unknown) => {
-    console.error(error);
-    await cleanup();
-    process.exit(1);
-  });
+runBrowserBench(main, cleanups);

@@ -13,7 +13,7 @@
 import os from 'node:os';
 import pg from 'pg';
 import { chromium, type Page } from 'playwright-core';
-import { buildBenchClient, CHROMIUM_ARGS, runCleanups, startBenchServer, type Cleanups } from './bench-app';
+import { buildBenchClient, CHROMIUM_ARGS, runBrowserBench, startBenchServer, type Cleanups } from './bench-app';
 import { BENCH_ROWS_MARKER, mulberry32, printTable, type BenchRow } from './harness';
 
 const ROWS = Number(process.env.BENCH_REVIEW_ROWS ?? 100_000);
@@ -22,7 +22,6 @@ const FRAMES = Number(process.env.BENCH_REVIEW_FRAMES ?? 600);
 const RUNS = 3;
 
 const cleanups: Cleanups = [];
-const cleanup = () => runCleanups(cleanups);
 
 /** ROWS invented readings in the open demo survey, with change sequences reserved as every writer does. */
 async function addReadings(databaseUrl: string): Promise<string> {
@@ -186,19 +185,4 @@ async function main() {
   return rows;
 }
 
-for (const signal of ['SIGINT', 'SIGTERM'] as const) {
-  process.once(signal, () => {
-    void cleanup().finally(() => process.exit(130));
-  });
-}
-
-main()
-  .then(async (rows) => {
-    await cleanup();
-    if (process.argv.includes('--strict') && rows.some((r) => !r.pass)) process.exit(1);
-  })
-  .catch(async (error: unknown) => {
-    console.error(error);
-    await cleanup();
-    process.exit(1);
-  });
+runBrowserBench(main, cleanups);
