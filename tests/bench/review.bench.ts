@@ -50,21 +50,44 @@ async function addReadings(databaseUrl: string): Promise<string> {
   }
 }
 
-/** Scrolls `selector` from top to bottom in FRAMES animation frames; returns every frame's length, ms. */
-function scrollFrames(page: Page, selector: string, frames: number): Promise<number[]> {
+interface ScrollRun {
+  /** Every frame's length (time between two animation frames), ms. */
+  frames: number[];
+  /**
+   * The long animation frames Chromium itself reported meanwhile (Long Animation Frames API: frames
+   * whose work took over 50 ms), each with the part spent in style and layout forced by a script.
+   */
+  long: { ms: number; forcedLayoutMs: number }[];
+}
+
+/** Scrolls `selector` from top to bottom in FRAMES animation frames. */
+function scrollFrames(page: Page, selector: string, frames: number): Promise<ScrollRun> {
   return page.evaluate(
     ({ selector, frames }) =>
-      new Promise<number[]>((resolve) => {
+      new Promise<ScrollRun>((resolve) => {
         const el = document.querySelector(selector) as HTMLElement;
         el.scrollTop = 0;
         const step = (el.scrollHeight - el.clientHeight) / frames;
         const times: number[] = [];
+        const long: ScrollRun['long'] = [];
+        type Loaf = PerformanceEntry & { scripts: { forcedStyleAndLayoutDuration: number }[] };
+        const observer = new PerformanceObserver((list) => {
+          for (const e of list.getEntries() as Loaf[]) long.push({ ms: e.duration, forcedLayoutMs: e.scripts.reduce((sum, x) => sum + x.forcedStyleAndLayoutDuration, 0) });
+        });
+        observer.observe({ type: 'long-animation-frame' });
         let last = 0;
         let i = 0;
         const tick = (now: number) => {
           if (last) times.push(now - last);
           last = now;
-          if (i > frames) return resolve(times);
+          if (i > frames) {
+            // Entries arrive after their frame: give the last ones a moment.
+            setTimeout(() => {
+              observer.disconnect();
+              resolve({ frames: times, long });
+            }, 100);
+            return;
+          }
           i += 1;
           el.scrollTop = Math.min(el.scrollHeight, i * step);
           requestAnimationFrame(tick);
@@ -105,6 +128,11 @@ async function main() {
   if (shown < ROWS) throw new Error(`the review table shows ${countText}, expected at least ${ROWS} rows`);
   const loadMs = Date.now() - loadStart;
   const domRows = await page.getByTestId('review-row').count();
+  // The page's JavaScript heap once the table is shown, after a full garbage collection.
+  const cdp = await context.newCDPSession(page);
+  await cdp.send('HeapProfiler.collectGarbage');
+  const heap = (await cdp.send('Runtime.getHeapUsage')) as { usedSize: number };
+  await cdp.detach();
 
   // The baseline: an empty element of the same height, scrolled the same way in the same page.
   await page.evaluate(() => {
@@ -147,10 +175,12 @@ async function main() {
   const baseline: number[] = [];
   const p95s: number[] = [];
   const slow: string[] = [];
+  const longFrames: string[] = [];
   for (let run = 0; run < RUNS + 1; run++) {
-    const frames = await scrollFrames(page, '[data-testid="review-table-scroll"]', FRAMES);
-    const base = await scrollFrames(page, '#bench-baseline', FRAMES);
+    const { frames, long } = await scrollFrames(page, '[data-testid="review-table-scroll"]', FRAMES);
+    const base = (await scrollFrames(page, '#bench-baseline', FRAMES)).frames;
     if (run === 0) continue; // warm-up
+    longFrames.push(long.map((f) => `${f.ms.toFixed(0)} (forced layout ${f.forcedLayoutMs.toFixed(0)})`).join(', ') || 'none');
     const sorted = [...frames].sort((a, b) => a - b);
     longest.push(sorted.at(-1)!);
     // Where the long frames fall (frame number: ms), to tell a steady cost from a one-off pause.
@@ -179,7 +209,8 @@ async function main() {
   printTable(rows, `Fringewalk review table benchmark — headless Chromium ${browser.version()}, node ${process.version}, ${os.cpus().length} cores`);
   console.log(
     `(longest frames ${longest.map((t) => t.toFixed(1)).join(', ')} ms; p95 ${p95s.map((t) => t.toFixed(1)).join(', ')} ms; baseline longest ${baseline.map((t) => t.toFixed(1)).join(', ')} ms; ` +
-      `${domRows} rows in the DOM; open to table shown ${loadMs} ms)\n(frames over 50 ms, per run: ${slow.join(' | ')})`,
+      `${domRows} rows in the DOM; open to table shown ${loadMs} ms; page heap ${(heap.usedSize / 1e6).toFixed(0)} MB)\n(frames over 50 ms, per run: ${slow.join(' | ')})\n` +
+      `(Chromium's long animation frames, ms, per run: ${longFrames.join(' | ')})`,
   );
   if (process.argv.includes('--rows')) console.log(`${BENCH_ROWS_MARKER}${JSON.stringify(rows)}`);
   return rows;

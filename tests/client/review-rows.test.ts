@@ -1,8 +1,8 @@
 /** The review table's filter, note search and value formatting (src/features/review/lib/review-rows.ts). */
 import { describe, expect, it } from 'vitest';
-import type { ReviewReading } from '@shared/schemas/review';
+import { ReviewReadingSchema, type ReviewReading } from '@shared/schemas/review';
 import { sortReviewRows } from '@/features/review/components/review-table';
-import { shareRepeatedValues } from '@/features/review/data/get-review-readings';
+import { compactReadings } from '@/features/review/data/get-review-readings';
 import { EMPTY_FILTER, filterRows, syncText, valueText } from '@/features/review/lib/review-rows';
 
 let n = 0;
@@ -94,15 +94,27 @@ describe('review table sorting', () => {
   });
 });
 
-describe('sharing repeated values of a large answer', () => {
-  it('changes no value, and rows of one class share one class object', () => {
+describe('compacting a large answer', () => {
+  it('changes no value, and rows share one copy of each class', () => {
     // Parsed from JSON, as the answer arrives: every row has its own copies.
-    const rows = JSON.parse(JSON.stringify([reading({ levelName: 'Ground' }), reading({ levelName: 'Ground' }), reading({ safetyClass: { index: 2, label: 'Projectile risk' } })])) as ReviewReading[];
+    const rows = JSON.parse(
+      JSON.stringify([
+        reading({ levelName: 'Ground' }),
+        reading({ levelName: 'Ground', decision: { id: '0190a000-0000-7000-8000-0000000000d1', verdict: 'remeasure', note: 'Again, away from the door', reviewerUserId: '0190a000-0000-7000-8000-0000000000e1', reviewerName: 'Rhea Reviewer', decidedAt: '2026-11-20T09:00:00.000Z', revision: 2 } }),
+        reading({ safetyClass: { index: 2, label: 'Projectile risk' } }),
+      ]),
+    ) as ReviewReading[];
     const before = structuredClone(rows);
     expect(rows[0]!.safetyClass).not.toBe(rows[1]!.safetyClass);
-    shareRepeatedValues(rows);
+    const compact = compactReadings(rows);
+    expect(compact).toEqual(before);
     expect(rows).toEqual(before);
-    expect(rows[0]!.safetyClass).toBe(rows[1]!.safetyClass);
-    expect(rows[2]!.safetyClass).not.toBe(rows[0]!.safetyClass);
+    expect(compact[0]!.safetyClass).toBe(compact[1]!.safetyClass);
+    expect(compact[2]!.safetyClass).not.toBe(compact[0]!.safetyClass);
+  });
+
+  it('keeps every field of a reading, in one order for every row', () => {
+    const [one] = compactReadings([reading({})]);
+    expect(Object.keys(one!)).toEqual(Object.keys(ReviewReadingSchema.shape));
   });
 });

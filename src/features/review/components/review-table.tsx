@@ -11,9 +11,18 @@
  * scrolling. Sorting compares precomputed keys (numbers, or lower-cased text), never a regular
  * expression per comparison. A row is a memoised component, so a small scroll step draws only the rows
  * that came into view.
+ *
+ * Row boxes are recycled: the table always draws the same number of rows (the most the screen has
+ * shown, plus the overscan: `steadyRange`), and a row's React key is its place in that ring of boxes
+ * (row index modulo the count), not its reading. A row scrolled out hands its box — its DOM nodes and
+ * React fibers — to the row scrolled in, which only changes texts and attributes; a long step (a whole
+ * screen at once) reuses every box, and no box is made or thrown away while scrolling. Keyed by reading, every row in a long
+ * scroll step was built anew and the old one thrown away: a screenful of new nodes per frame, and the
+ * garbage collector's pauses on top. A box that holds the keyboard focus when it is handed over gives the
+ * focus to the scrolling area, so a ticked box never comes to stand for another reading.
  */
-import { useVirtualizer } from '@tanstack/react-virtual';
-import { memo, useCallback, useMemo, useRef, useState, type Dispatch, type ReactNode, type SetStateAction } from 'react';
+import { useVirtualizer, type Range } from '@tanstack/react-virtual';
+import { memo, useCallback, useLayoutEffect, useMemo, useRef, useState, type Dispatch, type ReactNode, type RefObject, type SetStateAction } from 'react';
 import type { ReviewReading } from '@shared/schemas/review';
 import { syncText, valueText, VERDICT_LABELS, type FieldUnit } from '../lib/review-rows';
 
@@ -34,8 +43,30 @@ const verdictTone = { accepted: 'text-ok', remeasure: 'text-warning', rejected: 
 // One formatter for every cell: toLocaleString with options builds a new Intl.DateTimeFormat per call,
 // which was most of a frame's work while scrolling.
 const TIME_FORMAT = new Intl.DateTimeFormat(undefined, { dateStyle: 'short', timeStyle: 'short' });
+// Formatting is still the dearest part of a row (each row shows its time twice): keep the latest texts.
+const WHEN_CACHE = new Map<string, string>();
 function when(iso: string) {
-  return TIME_FORMAT.format(new Date(iso));
+  let text = WHEN_CACHE.get(iso);
+  if (text === undefined) {
+    if (WHEN_CACHE.size >= 2_000) WHEN_CACHE.clear();
+    text = TIME_FORMAT.format(new Date(iso));
+    WHEN_CACHE.set(iso, text);
+  }
+  return text;
+}
+
+/**
+ * The rows to draw: the visible ones and the overscan, widened to a steady count (`ring.size`, the most
+ * ever drawn) wherever the list is long enough, so the ring of boxes keeps all its members (see the
+ * module comment). The count only grows, when the screen shows more rows than before.
+ */
+function steadyRange(range: Range, ring: { size: number }): number[] {
+  const natural = range.endIndex - range.startIndex + 1 + 2 * range.overscan;
+  ring.size = Math.max(ring.size, natural);
+  const size = Math.min(ring.size, range.count);
+  let start = Math.max(range.startIndex - range.overscan, 0);
+  start = Math.min(start, range.count - size);
+  return Array.from({ length: size }, (_, i) => start + i);
 }
 
 type ColumnId = 'select' | 'station' | 'room' | 'surveyor' | 'instrument' | 'time' | 'value' | 'class' | 'sync' | 'decision' | 'notes';
@@ -124,17 +155,20 @@ export function ReviewTable({ rows, unit, classCount, selection, onSelectionChan
   const toggleSort = (id: ColumnId) => setSort((prev) => (prev.id === id ? { id, desc: !prev.desc } : { id, desc: false }));
 
   const scrollRef = useRef<HTMLDivElement>(null);
+  const ring = useRef({ size: 0 }).current;
   const virtualizer = useVirtualizer({
     count: sorted.length,
     getScrollElement: () => scrollRef.current,
     estimateSize: () => REVIEW_ROW_HEIGHT_PX,
     overscan: 3,
+    rangeExtractor: useCallback((range: Range) => steadyRange(range, ring), [ring]),
   });
   const items = virtualizer.getVirtualItems();
 
   return (
     // contain: strict keeps each scroll step's layout and paint inside the table's own box (its height is fixed).
-    <div ref={scrollRef} className="relative overflow-auto rounded-xl border border-border bg-surface" style={{ height, contain: 'strict' }} data-testid="review-table-scroll">
+    // tabIndex -1: the focus can be handed to it (a recycled row's, see the module comment), Tab skips it.
+    <div ref={scrollRef} tabIndex={-1} className="relative overflow-auto rounded-xl border border-border bg-surface" style={{ height, contain: 'strict' }} data-testid="review-table-scroll">
       {/* ARIA table roles on positioned boxes: each row is laid out alone, which a <table> cannot do. */}
       <div role="table" className="text-left" style={{ width: TABLE_WIDTH_PX }} aria-label="Readings of the survey" aria-rowcount={sorted.length + 1} data-testid="review-table">
         <div role="rowgroup" className="sticky top-0 z-10 bg-surface-sunken">
@@ -173,7 +207,20 @@ export function ReviewTable({ rows, unit, classCount, selection, onSelectionChan
         <div role="rowgroup" className="relative" style={{ height: virtualizer.getTotalSize() }}>
           {items.map((item) => {
             const reading = sorted[item.index]!;
-            return <ReviewRow key={reading.id} reading={reading} rowIndex={item.index} top={item.start} selected={selection[reading.id] === true} onToggle={toggleRow} unit={unit} classCount={classCount} readOnly={readOnly} />;
+            return (
+              <ReviewRow
+                key={item.index % items.length}
+                reading={reading}
+                rowIndex={item.index}
+                top={item.start}
+                selected={selection[reading.id] === true}
+                onToggle={toggleRow}
+                unit={unit}
+                classCount={classCount}
+                readOnly={readOnly}
+                focusHome={scrollRef}
+              />
+            );
           })}
         </div>
       </div>
@@ -257,17 +304,28 @@ interface ReviewRowProps extends CellInput {
   rowIndex: number;
   /** Offset from the top of the rows, px. */
   top: number;
+  /** Where the focus goes when this box is handed to another reading while it holds it. */
+  focusHome: RefObject<HTMLDivElement | null>;
 }
 
-const ReviewRow = memo(function ReviewRow({ reading: r, rowIndex, top, ...rest }: Omit<ReviewRowProps, 'r'>) {
+const ReviewRow = memo(function ReviewRow({ reading: r, rowIndex, top, focusHome, ...rest }: Omit<ReviewRowProps, 'r'>) {
   const input: CellInput = { r, ...rest };
+  const rowRef = useRef<HTMLDivElement>(null);
+  const shownId = useRef(r.id);
+  // The box now shows another reading: if the focus was in it, it must not stay on a control of this one.
+  useLayoutEffect(() => {
+    if (shownId.current === r.id) return;
+    shownId.current = r.id;
+    if (rowRef.current?.contains(document.activeElement)) focusHome.current?.focus({ preventScroll: true });
+  }, [r.id, focusHome]);
   return (
     <div
+      ref={rowRef}
       role="row"
       aria-rowindex={rowIndex + 2}
       aria-selected={rest.readOnly ? undefined : rest.selected}
       className={`absolute left-0 flex border-t border-border ${rest.selected ? 'bg-accent-soft' : ''}`}
-      style={{ height: REVIEW_ROW_HEIGHT_PX, width: TABLE_WIDTH_PX, transform: `translateY(${top}px)`, contain: 'layout paint' }}
+      style={{ height: REVIEW_ROW_HEIGHT_PX, width: TABLE_WIDTH_PX, transform: `translateY(${top}px)`, contain: 'strict' }}
       data-testid="review-row"
       data-reading-id={r.id}
       data-station-label={r.stationLabel ?? ''}
@@ -275,7 +333,7 @@ const ReviewRow = memo(function ReviewRow({ reading: r, rowIndex, top, ...rest }
       data-verdict={r.decision?.verdict ?? 'undecided'}
     >
       {COLUMNS.map((c) => (
-        <div key={c.id} role="cell" className="flex shrink-0 items-center overflow-hidden px-2 whitespace-nowrap" style={{ width: c.widthPx }}>
+        <div key={c.id} role="cell" className="flex shrink-0 items-center overflow-hidden px-2 whitespace-nowrap" style={{ width: c.widthPx, height: REVIEW_ROW_HEIGHT_PX, contain: 'strict' }}>
           <div className="min-w-0">{CELLS[c.id](input)}</div>
         </div>
       ))}
