@@ -203,11 +203,15 @@ export async function pushOutbox(options: PushOptions): Promise<PushSummary> {
   options.onProgress?.(done, total);
   for (let pass = 0; rows.length > 0; pass++) {
     const appliedBefore = summary.applied + summary.conflicts;
-    for (const batch of batches(rows, size)) {
+    for (const planned of batches(rows, size)) {
+      // As they stand now: an earlier batch's answers may have rebased these entries (a record the
+      // server made at another revision than the device counted), or removed them.
+      const batch = (await db.outbox.bulkGet(planned.map((r) => r.seq!))).flatMap((r) => (r && r.status === 'pending' ? [normaliseOutbox(r)] : []));
+      if (batch.length === 0) continue;
       const results = await send(options, batch);
       summary.sent += batch.length;
       await applyResults(db, batch, results, summary, waiting);
-      done += batch.length;
+      done += planned.length;
       options.onProgress?.(done, total);
     }
     // Parents pushed in this pass may have unblocked the entries that waited for them.

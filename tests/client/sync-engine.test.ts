@@ -218,6 +218,27 @@ describe('push', () => {
     expect((await getRecordSyncState(db, 'field_readings', readings[1]!.id)).state).toBe('rejected');
   });
 
+  it('sends a later change in a later batch on the revision the server gave the earlier one (no conflict with itself)', async () => {
+    // A refused reading, fixed and then changed again: the server makes it at revision 1 although the
+    // device had counted 2, so the queued change after it must be sent on revision 1, not 2.
+    const { readings } = await logReadings(1, { instrumentId: uuidv7() });
+    const reading = readings[0]!;
+    const engine = createSyncEngine({ db, orgId, batchSize: 1 });
+    const first = await engine.run();
+    expect(first.status === 'done' && first.push).toMatchObject({ rejected: 1 });
+    await saveFieldReading({ ...reading, instrumentId: ids.gaussmeterId });
+    await saveFieldReading({ ...(await db.fieldReadings.get(reading.id))!, notes: 'second look, probe re-zeroed' });
+    expect(await db.outbox.where('status').equals('pending').count()).toBe(2);
+
+    const second = await engine.run();
+    expect(second.status === 'done' && second.push).toMatchObject({ sent: 2, applied: 2, conflicts: 0, rejected: 0 });
+    const remote = (await sql<{ revision: number; notes: string | null }>(server.databaseUrl, 'SELECT revision, notes FROM field_readings WHERE id = $1', [reading.id]))[0]!;
+    expect(remote).toEqual({ revision: 2, notes: 'second look, probe re-zeroed' });
+    expect((await db.fieldReadings.get(reading.id))!.revision).toBe(2);
+    expect((await getRecordSyncState(db, 'field_readings', reading.id)).state).toBe('synced');
+    expect(await sql(server.databaseUrl, 'SELECT id FROM sync_conflicts WHERE record_id = $1', [reading.id])).toEqual([]);
+  });
+
   it('when two devices edit one reading, the device that lost marks a conflict and the server keeps both revisions', async () => {
     const { readings } = await logReadings(1);
     const reading = readings[0]!;
