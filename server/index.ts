@@ -143,7 +143,7 @@ export async function runServer(mode: RunMode): Promise<void> {
     stack.push({ name: 'the object-store client', stop: () => storage.close() });
     if (!config.s3.endpoint) await storage.ensureBucket();
     const demoFiles = await seedDemoFiles(db, storage);
-    if (demoFiles.length > 0) say(`Put ${demoFiles.length} demo plan image(s) into the object store.`);
+    if (demoFiles.length > 0) say(`Put ${demoFiles.length} demo file(s) (plan images, spectrum traces) into the object store.`);
 
     let capture: MailCapture | null = null;
     let smtpUrl = config.smtpUrl;
