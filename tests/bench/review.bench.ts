@@ -29,6 +29,8 @@ const RUNS = 3;
 
 const cleanups: Cleanups = [];
 
+const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[xs.length >> 1]!;
+
 /** ROWS invented readings in the open demo survey, with change sequences reserved as every writer does. */
 async function addReadings(databaseUrl: string): Promise<string> {
   const client = new pg.Client({ connectionString: databaseUrl });
@@ -191,7 +193,7 @@ async function main() {
     const sorted = [...frames].sort((a, b) => a - b);
     longest.push(sorted.at(-1)!);
     // Where the long frames fall (frame number: ms), to tell a steady cost from a one-off pause.
-    const runInterval = [...base].sort((a, b) => a - b)[base.length >> 1]!;
+    const runInterval = median(base);
     slow.push(frames.flatMap((f, i) => (Math.round(f / runInterval) > Math.round(50 / runInterval) ? [`${i}: ${f.toFixed(0)}`] : [])).join(', ') || 'none');
     p95s.push(sorted[Math.ceil(sorted.length * 0.95) - 1]!);
     baseline.push(Math.max(...base));
@@ -204,7 +206,6 @@ async function main() {
   });
   if (lastShown < shown) throw new Error(`after scrolling, the last row in the DOM is row ${lastShown} of ${shown}`);
 
-  const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[xs.length >> 1]!;
   // The display's frame interval, and the longest frame allowed in whole intervals (see the header).
   const interval = median(cadence);
   const allowedIntervals = Math.round(50 / interval);

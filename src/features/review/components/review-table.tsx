@@ -16,10 +16,11 @@
  * shown, plus the overscan: `steadyRange`), and a row's React key is its place in that ring of boxes
  * (row index modulo the count), not its reading. A row scrolled out hands its box — its DOM nodes and
  * React fibers — to the row scrolled in, which only changes texts and attributes; a long step (a whole
- * screen at once) reuses every box, and no box is made or thrown away while scrolling. Keyed by reading, every row in a long
- * scroll step was built anew and the old one thrown away: a screenful of new nodes per frame, and the
- * garbage collector's pauses on top. A box that holds the keyboard focus when it is handed over gives the
- * focus to the scrolling area, so a ticked box never comes to stand for another reading.
+ * screen at once) reuses every box, and no box is made or thrown away while scrolling. Keyed by
+ * reading, every row in a long scroll step was built anew and the old one thrown away: a screenful of
+ * new nodes per frame, and the garbage collector's pauses on top. A box that holds the keyboard focus
+ * when it is handed over gives the focus to the scrolling area, so a ticked box never comes to stand
+ * for another reading.
  */
 import { useVirtualizer, type Range } from '@tanstack/react-virtual';
 import { memo, useCallback, useLayoutEffect, useMemo, useRef, useState, type Dispatch, type ReactNode, type RefObject, type SetStateAction } from 'react';
