@@ -1,14 +1,14 @@
 /**
  * Every database statement of sync (push, pull, conflicts, repeat groups). The bulk paths — applying a
  * push, its change_log rows, the processed-mutation rows — are single `INSERT … SELECT FROM
- * json_to_recordset($1)` statements: the rows travel as ONE JSON text (JSON.stringify is native and
- * needs no per-element escaping, where a text array per column costs the driver a JavaScript pass over
- * every value; STACK.md, "Performance facts": Drizzle's builder spends most of its time building SQL
- * text for many rows). Lookups by a batch's ids join `unnest(ids)` LATERAL to a key lookup that cannot
- * be flattened into a join (LIMIT 1, or FOR UPDATE), so each id is one index probe whatever the planner
- * believes about a table a bulk push has just grown (`id = ANY(…)` and plain joins became sequential
- * scans of the whole table there). Drizzle's builder is kept for the other reads
- * and the few-row writes. The rules live in sync.service.ts.
+ * unnest($1::uuid[], $2::integer[], …)` statements: the rows travel as one array literal per column,
+ * written here (`arrayLiteral`) rather than by the driver, whose per-element conversion costs several
+ * times as much (STACK.md, "Performance facts": Drizzle's builder spends most of its time building SQL
+ * text for many rows, so it is not used for them either). Lookups by a batch's ids join `unnest(ids)`
+ * LATERAL to a key lookup that cannot be flattened into a join (LIMIT 1, or FOR UPDATE), so each id is
+ * one index probe whatever the planner believes about a table a bulk push has just grown (`id = ANY(…)`
+ * and plain joins became sequential scans of the whole table there). Drizzle's builder is kept for the
+ * other reads and the few-row writes. The rules live in sync.service.ts.
  */
 import { and, asc, eq, getTableColumns, inArray, sql, type SQL } from 'drizzle-orm';
 import type { PgColumn, PgTable } from 'drizzle-orm/pg-core';
@@ -99,17 +99,60 @@ const WRITABLE = Object.fromEntries(Object.entries(CAPTURE_TABLES).map(([entity,
 const q = (name: string) => `"${name.replace(/"/g, '""')}"`;
 
 /**
- * `json_to_recordset($1::json) AS u("organisationId" uuid, …)`: the rows' own (camelCase) keys name the
- * record's columns, so the rows are sent as they are, one JSON text (missing keys read as NULL, keys the
- * table lacks are ignored; Dates become ISO strings; a jsonb column takes the nested value).
+ * `unnest($1::uuid[], $2::integer[], …) AS u("organisationId", …)`: the rows as one array per column,
+ * each sent as one PostgreSQL array literal (missing keys become NULL; a jsonb column's values are
+ * sent as JSON texts). Measured on 500 readings: the insert is about a tenth cheaper than parsing the
+ * same rows out of one JSON text with `json_to_recordset`, and the five-column change_log insert half
+ * as dear.
  */
 function recordset(columns: ColumnSpec[], rows: Record<string, unknown>[]): { from: SQL; select: string; names: string } {
-  const defs = columns.map((c) => `${q(c.key)} ${c.type}`).join(', ');
   return {
-    from: sql`json_to_recordset(${JSON.stringify(rows)}::json) AS u(${sql.raw(defs)})`,
+    from: unnestColumns(
+      columns.map((c) => ({ alias: c.key, type: c.type, values: rows.map((r) => (c.type === 'jsonb' ? jsonText(r[c.key]) : (r[c.key] ?? null))) })),
+    ),
     select: columns.map((c) => `u.${q(c.key)}`).join(', '),
     names: columns.map((c) => q(c.name)).join(', '),
   };
+}
+
+/** An `applied` answer with nothing but its revision and sequence (no conflict id). */
+function isPlainApplied(answer: Record<string, unknown>): answer is { status: 'applied'; revision: number; changeSeq: number } {
+  if (answer.status !== 'applied' || typeof answer.revision !== 'number' || typeof answer.changeSeq !== 'number') return false;
+  for (const key in answer) if (key !== 'status' && key !== 'revision' && key !== 'changeSeq') return false;
+  return true;
+}
+
+const jsonText = (v: unknown) => (v === null || v === undefined ? null : JSON.stringify(v));
+
+const ESCAPED = /[\\"]/;
+
+/**
+ * A PostgreSQL array literal (`{…}`) of one column's values, sent as one text parameter. Every text is
+ * quoted (so no value can split into two elements or read as NULL), numbers and booleans are written
+ * as they are. The driver does the same for a JavaScript array, at over twice the cost (500 readings
+ * × 23 columns: 3.1 ms against 1.4 ms, measured in Node 20).
+ */
+export function arrayLiteral(values: readonly unknown[]): string {
+  let out = '{';
+  for (let i = 0; i < values.length; i += 1) {
+    if (i > 0) out += ',';
+    const v = values[i];
+    if (v === null || v === undefined) out += 'NULL';
+    else if (typeof v === 'number') out += Object.is(v, -0) ? '-0' : String(v);
+    else if (typeof v === 'bigint') out += String(v);
+    else if (typeof v === 'boolean') out += v ? 't' : 'f';
+    else {
+      const text = typeof v === 'string' ? v : v instanceof Date ? v.toISOString() : JSON.stringify(v);
+      out += ESCAPED.test(text) ? `"${text.replace(/[\\"]/g, '\\$&')}"` : `"${text}"`;
+    }
+  }
+  return `${out}}`;
+}
+
+/** `unnest($1::type[], …) AS u(alias, …)`: rows as parallel column arrays, all of one length. */
+function unnestColumns(columns: { alias: string; type: string; values: unknown[] }[]): SQL {
+  const arrays = columns.map((c) => sql`${arrayLiteral(c.values)}::${sql.raw(c.type)}[]`);
+  return sql`unnest(${sql.join(arrays, sql`, `)}) AS u(${sql.raw(columns.map((c) => q(c.alias)).join(', '))})`;
 }
 
 /** Every column of a capture table (generated |B| included), for reading whole rows with raw SQL. */
@@ -146,7 +189,7 @@ function upsertStatement(entity: CaptureEntity, rows: Record<string, unknown>[])
     WHERE ${sql.raw(table)}.organisation_id = EXCLUDED.organisation_id`;
 }
 
-const uuids = (ids: readonly string[]) => sql`${sql.param([...new Set(ids)])}::uuid[]`;
+const uuids = (ids: readonly string[]) => sql`${arrayLiteral([...new Set(ids)])}::uuid[]`;
 
 /** What a push batch needs to know before deciding, read in one statement (see `batchContext`). */
 export interface BatchContext {
@@ -231,13 +274,17 @@ export function createSyncRepository(db: Db) {
         SELECT ${entity}, x.id, NULL, x.row FROM unnest(${uuids(ids)}) AS k(id)
           CROSS JOIN LATERAL (SELECT t.id, to_jsonb(t.*) AS row FROM ${sql.raw(q(entity))} t WHERE t.id = k.id FOR UPDATE) x`,
       );
+      // `.execute()` sends the statement now: awaiting Drizzle's lazy query object would send it only on
+      // the next microtask, after the caller's synchronous checks of the batch, instead of beside them.
       const result = await tx.execute<{ kind: string; id: string; parent: string | null; data: unknown }>(sql`
         WITH locks AS MATERIALIZED (
           SELECT count(pg_advisory_xact_lock(k)) AS n FROM (
             SELECT DISTINCT hashtextextended(id::text, 7531) AS k FROM unnest(${uuids(want.recordIds)}) AS id ORDER BY 1) keys
         ), seen AS MATERIALIZED (
           SELECT s.mutation_id, s.result FROM locks, unnest(${uuids(want.mutationIds)}) AS k(id)
-          CROSS JOIN LATERAL (SELECT mutation_id, result FROM sync_mutations WHERE organisation_id = ${org} AND mutation_id = k.id AND result IS NOT NULL LIMIT 1) s
+          CROSS JOIN LATERAL (
+            SELECT mutation_id, COALESCE(result, jsonb_build_object('status', 'applied', 'revision', applied_revision, 'changeSeq', applied_change_seq)) AS result
+            FROM sync_mutations WHERE organisation_id = ${org} AND mutation_id = k.id LIMIT 1) s
         ), seq AS (
           UPDATE organisations SET change_seq = change_seq + (${want.mutationCount}::int - (SELECT count(*) FROM seen))
           WHERE id = ${org} AND (SELECT n FROM locks) >= 0 AND ${want.mutationCount}::int > (SELECT count(*) FROM seen)
@@ -260,7 +307,7 @@ export function createSyncRepository(db: Db) {
         UNION ALL SELECT 'level', id, site_id, NULL FROM levels WHERE organisation_id = ${org} AND id = ANY(${uuids(want.levels)})
         UNION ALL SELECT 'room', id, level_id, NULL FROM rooms WHERE organisation_id = ${org} AND id = ANY(${uuids(want.rooms)})
         UNION ALL SELECT 'instrument', id, NULL, NULL FROM instruments WHERE organisation_id = ${org} AND id = ANY(${uuids(want.instruments)})
-        ${sql.join(recordParts, sql``)}`);
+        ${sql.join(recordParts, sql``)}`).execute();
       const out: BatchContext = { seqs: { first: 0, count: 0 }, seen: new Map(), surveys: new Map(), stations: new Map(), walks: new Map(), levels: new Map(), rooms: new Map(), instruments: new Set(), records: [] };
       const byEntity = new Map<CaptureEntity, DbRow[]>();
       for (const r of result.rows) {
@@ -370,11 +417,7 @@ export function createSyncRepository(db: Db) {
       },
     ): Promise<void> {
       const org = sql`${input.organisationId}::uuid`;
-      // One JSON text per table (a JSON null reads as SQL NULL in json_to_recordset).
-      const rows = (list: object[]) => sql`${JSON.stringify(list)}::json`;
-      const c = input.changes.map((x) => ({ s: x.seq, e: x.entity, i: x.entityId, r: x.revision, d: x.deleted }));
-      const m = input.mutations.map((x) => ({ mi: x.mutationId, e: x.entity, r: x.recordId, qa: x.queuedAt, res: x.result }));
-      const a = input.audits.map((x) => ({ ac: x.action, e: x.entity, i: x.entityId, b: x.before ?? null, af: x.after ?? null }));
+      const col = <T>(list: T[], alias: string, type: string, value: (x: T) => unknown) => ({ alias, type, values: list.map(value) });
       const ctes: SQL[] = [];
       input.records.forEach(({ entity, inserts, upserts, touches }, n) => {
         const table = sql.raw(q(entity));
@@ -384,25 +427,46 @@ export function createSyncRepository(db: Db) {
         }
         if (upserts.length > 0) ctes.push(sql`${sql.raw(`changed_${n}`)} AS (${upsertStatement(entity, upserts)})`);
         if (touches.length > 0) {
-          ctes.push(sql`${sql.raw(`touched_${n}`)} AS (
-            UPDATE ${table} t SET change_seq = u.seq, updated_at = now()
-            FROM json_to_recordset(${rows(touches.map((x) => ({ id: x.id, seq: x.changeSeq })))}) AS u(id uuid, seq bigint)
-            WHERE t.id = u.id)`);
+          const u = unnestColumns([col(touches, 'id', 'uuid', (x) => x.id), col(touches, 'seq', 'bigint', (x) => x.changeSeq)]);
+          ctes.push(sql`${sql.raw(`touched_${n}`)} AS (UPDATE ${table} t SET change_seq = u.seq, updated_at = now() FROM ${u} WHERE t.id = u.id)`);
         }
       });
       if (input.counter !== null) ctes.push(sql`counter AS (UPDATE organisations SET change_seq = ${input.counter} WHERE id = ${org})`);
+      const { changes: c, mutations: m, audits: a } = input;
+      const log = unnestColumns([
+        col(c, 's', 'bigint', (x) => x.seq),
+        col(c, 'e', 'text', (x) => x.entity),
+        col(c, 'i', 'uuid', (x) => x.entityId),
+        col(c, 'r', 'integer', (x) => x.revision),
+        col(c, 'd', 'boolean', (x) => x.deleted),
+      ]);
+      const answers = unnestColumns([
+        col(m, 'mi', 'uuid', (x) => x.mutationId),
+        col(m, 'e', 'text', (x) => x.entity),
+        col(m, 'r', 'uuid', (x) => x.recordId),
+        col(m, 'qa', 'timestamptz', (x) => x.queuedAt),
+        // A plain applied answer goes into the typed columns, any other whole into result (see the schema).
+        col(m, 'ar', 'integer', (x) => (isPlainApplied(x.result) ? x.result.revision : null)),
+        col(m, 'ac', 'bigint', (x) => (isPlainApplied(x.result) ? x.result.changeSeq : null)),
+        col(m, 'res', 'jsonb', (x) => (isPlainApplied(x.result) ? null : jsonText(x.result))),
+      ]);
+      const audit = unnestColumns([
+        col(a, 'ac', 'text', (x) => x.action),
+        col(a, 'e', 'text', (x) => x.entity),
+        col(a, 'i', 'text', (x) => x.entityId),
+        col(a, 'b', 'jsonb', (x) => jsonText(x.before)),
+        col(a, 'af', 'jsonb', (x) => jsonText(x.after)),
+      ]);
       await tx.execute(sql`
         WITH ${sql.join([...ctes, sql``], sql`, `)}log AS (
           INSERT INTO change_log (organisation_id, seq, entity, entity_id, revision, deleted)
-          SELECT ${org}, s, e, i, r, d FROM json_to_recordset(${rows(c)}) AS u(s bigint, e text, i uuid, r int, d boolean)
+          SELECT ${org}, s, e, i, r, d FROM ${log}
         ), answers AS (
-          INSERT INTO sync_mutations (organisation_id, mutation_id, device_id, user_id, entity, record_id, queued_at, result)
-          SELECT ${org}, mi, ${input.deviceId}, ${input.userId}::uuid, e, r, qa, res
-          FROM json_to_recordset(${rows(m)}) AS u(mi uuid, e text, r uuid, qa timestamptz, res jsonb)
+          INSERT INTO sync_mutations (organisation_id, mutation_id, device_id, user_id, entity, record_id, queued_at, applied_revision, applied_change_seq, result)
+          SELECT ${org}, mi, ${input.deviceId}, ${input.userId}::uuid, e, r, qa, ar, ac, res FROM ${answers}
         ), audit AS (
           INSERT INTO audit_log (organisation_id, actor_user_id, action, entity, entity_id, before, after, request_id)
-          SELECT ${org}, ${input.userId}::uuid, ac, e, i, b, af, ${input.requestId}
-          FROM json_to_recordset(${rows(a)}) AS u(ac text, e text, i text, b jsonb, af jsonb)
+          SELECT ${org}, ${input.userId}::uuid, ac, e, i, b, af, ${input.requestId} FROM ${audit}
         )
         INSERT INTO repeat_recompute_queue (survey_id, organisation_id, requested_at)
         SELECT s, ${org}, clock_timestamp() FROM unnest(${uuids(input.dirtySurveyIds)}) AS s

@@ -42,7 +42,7 @@
  *     not answered before: the organisation's counter row stays locked to the end of the transaction,
  *     so what the batch does not use is given back in the write — no gap, and no extra round trip; the
  *     lock is held from the context read on, a few milliseconds longer than a reservation just before
- *     the write would hold it). Then ONE statement (writable CTEs, rows sent as JSON) for the new
+ *     the write would hold it). Then ONE statement (writable CTEs, rows sent as column arrays) for the new
  *     records (a plain INSERT per entity), the changed ones (`… ON CONFLICT (id) DO UPDATE`), the
  *     sequence-only touches, the change_log rows, the audit rows, the stored answers and the repeat
  *     queue — BEGIN, three statements and COMMIT per batch whatever its size. If the write fails on a

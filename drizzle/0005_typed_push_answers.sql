@@ -1,0 +1,3 @@
+ALTER TABLE "sync_mutations" ADD COLUMN "applied_revision" integer;--> statement-breakpoint
+ALTER TABLE "sync_mutations" ADD COLUMN "applied_change_seq" bigint;--> statement-breakpoint
+ALTER TABLE "sync_mutations" ADD CONSTRAINT "sync_mutations_answer_ck" CHECK ("sync_mutations"."result" IS NOT NULL OR ("sync_mutations"."applied_revision" IS NOT NULL AND "sync_mutations"."applied_change_seq" IS NOT NULL));
