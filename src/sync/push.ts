@@ -9,15 +9,19 @@
  * - rejected: the entry stays, status 'rejected', with the server's message; nothing is dropped.
  *   STATION_UNKNOWN / WALK_UNKNOWN mean the parent has not arrived yet: the entry stays pending and is
  *   tried again after the rest of the run's batches (its parent may be among them).
+ *
+ * Up to PUSH_IN_FLIGHT batches are on the way at once, when the later cannot overtake anything of the
+ * earlier that it depends on (shared/sync/push-plan.ts); otherwise it waits for their answers.
  */
 import { PUSH_MAX_MUTATIONS, type PushResult } from '@shared/schemas/sync';
 import type { Mutation } from '@shared/sync/mutation';
+import { batchFootprint, PUSH_BATCH_SIZE, pushInTurn } from '@shared/sync/push-plan';
 import { normaliseOutbox, type FringewalkDb, type OutboxRow, type SyncConflictRow } from '@/db';
 import { isApiRequestError } from '@/lib/api';
 import { postPush } from './http';
 import { capturedTable, capturedTables } from './tables';
 
-export const PUSH_BATCH_SIZE = 200;
+export { PUSH_BATCH_SIZE };
 /** The server refuses a push body over 1 MB (413); stay under it with room for the envelope. */
 export const PUSH_MAX_BODY_BYTES = 900_000;
 /** Passes over "parent not there yet" entries within one run before leaving them for the next run. */
@@ -203,17 +207,22 @@ export async function pushOutbox(options: PushOptions): Promise<PushSummary> {
   options.onProgress?.(done, total);
   for (let pass = 0; rows.length > 0; pass++) {
     const appliedBefore = summary.applied + summary.conflicts;
-    for (const planned of batches(rows, size)) {
-      // As they stand now: an earlier batch's answers may have rebased these entries (a record the
-      // server made at another revision than the device counted), or removed them.
-      const batch = (await db.outbox.bulkGet(planned.map((r) => r.seq!))).flatMap((r) => (r && r.status === 'pending' ? [normaliseOutbox(r)] : []));
-      if (batch.length === 0) continue;
-      const results = await send(options, batch);
-      summary.sent += batch.length;
-      await applyResults(db, batch, results, summary, waiting);
-      done += planned.length;
-      options.onProgress?.(done, total);
-    }
+    await pushInTurn(
+      batches(rows, size),
+      (planned) => batchFootprint(planned),
+      async (planned) => {
+        // As they stand now: an earlier batch's answers may have rebased these entries (a record the
+        // server made at another revision than the device counted), or removed them.
+        const batch = (await db.outbox.bulkGet(planned.map((r) => r.seq!))).flatMap((r) => (r && r.status === 'pending' ? [normaliseOutbox(r)] : []));
+        if (batch.length > 0) {
+          const results = await send(options, batch);
+          summary.sent += batch.length;
+          await applyResults(db, batch, results, summary, waiting);
+        }
+        done += planned.length;
+        options.onProgress?.(done, total);
+      },
+    );
     // Parents pushed in this pass may have unblocked the entries that waited for them.
     const progressed = summary.applied + summary.conflicts > appliedBefore;
     if (waiting.size === 0 || !progressed || pass + 1 >= MAX_PARENT_RETRY_PASSES) break;

@@ -2,10 +2,12 @@
  * Sync benchmark (`npm run bench:sync`; issue 5, Benchmark). A throwaway PostgreSQL cluster (like the
  * tests' global setup), migrated and seeded with the demo; the real app in a child process
  * (tests/setup/sync-server-child.ts) on a loopback port; a "device" in this process speaking the real
- * protocol over HTTP (sign-in, push batches of 500, pull pages of 5,000).
+ * protocol over HTTP (sign-in, push batches, pull pages of 5,000).
  *
  * Figures:
- *  1. push 10,000 field readings (20 batches of 500) as the surveyor, beside a raw batched
+ *  1. push 10,000 field readings as the surveyor, the way a device pushes (shared/sync/push-plan.ts:
+ *     batches of PUSH_BATCH_SIZE, up to PUSH_IN_FLIGHT of them on the way at once when they do not
+ *     depend on each other, as these readings of stations pushed beforehand do), beside a raw batched
  *     `INSERT … SELECT FROM unnest(…)` of the same rows (1,000 per statement, one transaction, change
  *     sequences reserved the same way) into the same database, run alternately in the same process. Goal:
  *     push ≤ 2.0 × raw.
@@ -25,6 +27,7 @@ import { freePort, makeThrowawayDir, startLocalPostgres } from '../../server/db/
 import { runMigrations } from '../../server/db/migrate';
 import { DEMO_PASSWORD, seedDemo } from '../../server/db/seed/demo';
 import { getJson, postJson, signInOver, startChildServer } from '../setup/sync-child';
+import { batchFootprint, PUSH_BATCH_SIZE, PUSH_IN_FLIGHT, pushInTurn } from '../../shared/sync/push-plan';
 import { makeReading, makeStation, mutationFor, type Scope } from '../setup/sync-fixtures-core';
 import { BENCH_ROWS_MARKER, mulberry32, printTable, type BenchRow } from './harness';
 
@@ -98,17 +101,18 @@ async function main() {
         }),
       );
 
+    /** Pushes as a device does (shared/sync/push-plan.ts): batches in queue order, independent ones side by side. */
     async function pushRun(): Promise<number> {
       const mutations = makeReadings().map((r) => mutationFor('field_readings', r));
       const started = performance.now();
-      for (let i = 0; i < mutations.length; i += PUSH_MAX_MUTATIONS) {
-        const res = await postJson(server.baseUrl, surveyorCookie, pushPath, { deviceId: 'bench-device', mutations: mutations.slice(i, i + PUSH_MAX_MUTATIONS) });
+      const batches = Array.from({ length: Math.ceil(mutations.length / PUSH_BATCH_SIZE) }, (_, i) => mutations.slice(i * PUSH_BATCH_SIZE, (i + 1) * PUSH_BATCH_SIZE));
+      await pushInTurn(batches, batchFootprint, async (batch) => {
+        const res = await postJson(server.baseUrl, surveyorCookie, pushPath, { deviceId: 'bench-device', mutations: batch });
         if (res.status !== 200) throw new Error(`push failed: ${res.status} ${JSON.stringify(res.body)}`);
-        const results = PushResponseSchema.parse(res.body).results;
-        const bad = results.find((r) => r.status !== 'applied');
+        const bad = PushResponseSchema.parse(res.body).results.find((r) => r.status !== 'applied');
         if (bad) throw new Error(`a mutation was not applied: ${JSON.stringify(bad)}`);
-        if (process.env.BENCH_TRACE) step(`  batch ${i / PUSH_MAX_MUTATIONS + 1}: ${(performance.now() - started).toFixed(0)} ms`);
-      }
+        if (process.env.BENCH_TRACE) step(`  batch of ${batch.length}: ${(performance.now() - started).toFixed(0)} ms`);
+      });
       return performance.now() - started;
     }
 
@@ -214,7 +218,7 @@ async function main() {
     const rawMs = median(rawTimes);
     const rows: BenchRow[] = [
       {
-        figure: `push ${READINGS.toLocaleString('en')} readings over HTTP (${READINGS / PUSH_MAX_MUTATIONS} batches of ${PUSH_MAX_MUTATIONS}) vs raw unnest INSERT`,
+        figure: `push ${READINGS.toLocaleString('en')} readings over HTTP (${READINGS / PUSH_BATCH_SIZE} batches of ${PUSH_BATCH_SIZE}, ${PUSH_IN_FLIGHT} on the way) vs raw unnest INSERT`,
         goal: Math.round(2 * rawMs),
         measured: pushMs,
         baseline: rawMs,

@@ -162,7 +162,11 @@ describe('push', () => {
     expect(result.push).toMatchObject({ sent: 52, applied: 52, conflicts: 0, rejected: 0, waiting: 0 });
     expect(await db.outbox.count()).toBe(0);
     const pushing = progress.filter((p) => p.phase === 'pushing');
-    expect(pushing.map((p) => p.done)).toEqual([0, 10, 20, 30, 40, 50, 52]);
+    // One step per batch of 10 (two may be on the way at once, so the last two can finish in either order).
+    const steps = pushing.map((p) => p.done);
+    expect(steps.slice(0, 5)).toEqual([0, 10, 20, 30, 40]);
+    expect(steps.slice(5)).toEqual(expect.arrayContaining([52]));
+    expect([[50, 52], [42, 52]]).toContainEqual(steps.slice(5));
     expect(pushing.every((p) => p.total === 52)).toBe(true);
     expect(progressText(pushing[2]!)).toBe('Pushing 20 of 52');
     expect(progress.at(-1)!.phase).toBe('pulling');
@@ -181,6 +185,52 @@ describe('push', () => {
     const [{ n }] = (await sql<{ n: number }>(server.databaseUrl, `SELECT count(*)::int AS n FROM field_readings WHERE station_id = $1`, [station.id])) as [{ n: number }];
     expect(n).toBe(45);
     expect((await db.syncState.get(orgId))!.lastSyncAt).toBe(result.finishedAt);
+  });
+
+  it('keeps two independent batches on the way at once, and holds back a batch that needs an earlier one’s station', async () => {
+    // 1 walk + 1 station + 28 readings at it, in batches of 10: the first batch makes the station the
+    // second's readings were taken at, so the second may set off only once the first is answered; the
+    // third needs nothing of the second, so it goes while the second is on the way. Every push is watched on its way
+    // to the real server, and its answer held back (up to 1.5 s) until another push sets off, so two
+    // batches that may overlap do, and a batch that must wait is seen waiting.
+    await logReadings(28);
+    const realFetch = globalThis.fetch;
+    const pushes: { index: number; ids: string[]; overlapped: number[] }[] = [];
+    const onTheWay = new Set<number>();
+    let arrived: (() => void) | null = null;
+    globalThis.fetch = async (input, init) => {
+      if (!String(input).includes('/sync/push')) return realFetch(input, init);
+      const index = pushes.length;
+      const ids = (JSON.parse(String(init?.body)) as { mutations: { recordId: string }[] }).mutations.map((m) => m.recordId);
+      pushes.push({ index, ids, overlapped: [...onTheWay] });
+      for (const other of onTheWay) pushes[other]!.overlapped.push(index);
+      onTheWay.add(index);
+      arrived?.();
+      try {
+        const response = await realFetch(input, init);
+        await new Promise<void>((resolve) => {
+          const timer = setTimeout(resolve, 1500);
+          arrived = () => {
+            clearTimeout(timer);
+            resolve();
+          };
+        });
+        return response;
+      } finally {
+        onTheWay.delete(index);
+      }
+    };
+    try {
+      const result = await createSyncEngine({ db, orgId, batchSize: 10 }).run();
+      expect(result.status === 'done' && result.push).toMatchObject({ sent: 30, applied: 30, rejected: 0, waiting: 0 });
+    } finally {
+      globalThis.fetch = realFetch;
+    }
+    expect(pushes.map((p) => p.ids.length)).toEqual([10, 10, 10]);
+    expect(pushes[0]!.overlapped).toEqual([]);
+    expect(pushes[1]!.overlapped).toEqual([2]);
+    expect(pushes[2]!.overlapped).toEqual([1]);
+    expect(await db.outbox.count()).toBe(0);
   });
 
   it('keeps a refused change on the device with the server’s message, and sends it again once fixed', async () => {
