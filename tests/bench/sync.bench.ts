@@ -34,7 +34,7 @@ import { BENCH_ROWS_MARKER, mulberry32, printTable, type BenchRow } from './harn
 const args = process.argv.slice(2);
 const READINGS = 10_000;
 const STATIONS = 500;
-const PUSH_RUNS = 3;
+const PUSH_RUNS = 5;
 const RAW_CHUNK_ROWS = 1_000;
 const PULL_CHANGES = 100_000;
 const PULL_PAGE = 5_000;
