@@ -234,14 +234,18 @@ export function createSyncRepository(db: Db) {
 
     /**
      * Everything a batch is decided against, in ONE statement: first the advisory locks on its record
-     * ids, sorted, as `lockRecordIds` takes them; then the stored answers of its mutation ids; then (the
-     * locks taken, so in the same order as every other writer) the reservation of one change sequence per
-     * mutation not answered before — at most what the batch can use, the rest given back at its end; its
-     * surveys with whether the user is assigned; the stations,
-     * walks, levels, rooms and instruments it names that exist in this organisation; and the current rows
-     * of its records, in any organisation (the caller tells own rows from foreign ids), locked FOR UPDATE.
-     * Ids may be a superset of the batch's (they are asked before the batch has been checked); the caller
-     * looks up only what it needs.
+     * ids, sorted, as `lockRecordIds` takes them; then the stored answers of its mutation ids; then
+     * whether any of its records exists already. Only then, and only if one does, the reservation of one
+     * change sequence per mutation not answered before (at most what the batch can use, the rest given
+     * back at its end), which locks the organisation's counter row before the records' rows are locked
+     * FOR UPDATE — the order of every other writer (attachments, site setup), so none can deadlock with
+     * it. A batch that only creates records locks no row here: it reserves its sequences once it has
+     * been decided (`reserveChangeSeqs`), so its reads and checks run while another push of the
+     * organisation holds the counter, instead of after. Then its surveys with whether the user is
+     * assigned; the stations, walks, levels, rooms and instruments it names that exist in this
+     * organisation; and the current rows of its records, in any organisation (the caller tells own rows
+     * from foreign ids). Ids may be a superset of the batch's (they are asked before the batch has been
+     * checked); the caller looks up only what it needs.
      *
      * The reads share the statement's snapshot, taken before the locks were granted: a push that held
      * them and committed while this one waited is not seen here, except through FOR UPDATE (which reads
@@ -268,11 +272,14 @@ export function createSyncRepository(db: Db) {
       },
     ): Promise<BatchContext> {
       const org = sql`${organisationId}::uuid`;
-      const recordParts = [...want.records].map(
-        ([entity, ids]) => sql`
+      const records = [...want.records].map(([entity, ids]) => ({ entity, table: sql.raw(q(entity)), ids: uuids(ids) }));
+      const probes = records.map(({ table, ids }) => sql`SELECT 1 FROM unnest(${ids}) AS k(id) WHERE EXISTS (SELECT 1 FROM ${table} t WHERE t.id = k.id)`);
+      const recordParts = records.map(
+        ({ entity, table, ids }) => sql`
         UNION ALL
-        SELECT ${entity}, x.id, NULL, x.row FROM unnest(${uuids(ids)}) AS k(id)
-          CROSS JOIN LATERAL (SELECT t.id, to_jsonb(t.*) AS row FROM ${sql.raw(q(entity))} t WHERE t.id = k.id FOR UPDATE) x`,
+        SELECT ${entity}, x.id, NULL, x.row FROM unnest(${ids}) AS k(id)
+          CROSS JOIN LATERAL (SELECT t.id, to_jsonb(t.*) AS row FROM ${table} t WHERE t.id = k.id FOR UPDATE) x
+          WHERE (SELECT found FROM existing)`,
       );
       // `.execute()` sends the statement now: awaiting Drizzle's lazy query object would send it only on
       // the next microtask, after the caller's synchronous checks of the batch, instead of beside them.
@@ -285,9 +292,11 @@ export function createSyncRepository(db: Db) {
           CROSS JOIN LATERAL (
             SELECT mutation_id, COALESCE(result, jsonb_build_object('status', 'applied', 'revision', applied_revision, 'changeSeq', applied_change_seq)) AS result
             FROM sync_mutations WHERE organisation_id = ${org} AND mutation_id = k.id LIMIT 1) s
+        ), existing AS MATERIALIZED (
+          SELECT EXISTS (${probes.length > 0 ? sql.join(probes, sql` UNION ALL `) : sql`SELECT 1 WHERE false`}) AS found FROM locks
         ), seq AS (
           UPDATE organisations SET change_seq = change_seq + (${want.mutationCount}::int - (SELECT count(*) FROM seen))
-          WHERE id = ${org} AND (SELECT n FROM locks) >= 0 AND ${want.mutationCount}::int > (SELECT count(*) FROM seen)
+          WHERE id = ${org} AND (SELECT found FROM existing) AND ${want.mutationCount}::int > (SELECT count(*) FROM seen)
           RETURNING change_seq, ${want.mutationCount}::int - (SELECT count(*) FROM seen) AS reserved
         )
         SELECT 'seen' AS kind, mutation_id AS id, NULL::uuid AS parent, result AS data FROM seen

@@ -38,14 +38,16 @@
  *       or delete_vs_edit for a deletion reaching an edited record): the server row stays, the incoming
  *       version goes to sync_conflicts, and the record gets a new change sequence (not a new revision)
  *       so every device pulls it again with `conflicted: true`. Records are never merged field by field.
- *  6. The writes. The change sequences were reserved in step 2 (after the record locks, one per mutation
- *     not answered before: the organisation's counter row stays locked to the end of the transaction,
- *     so what the batch does not use is given back in the write — no gap, and no extra round trip; the
- *     lock is held from the context read on, a few milliseconds longer than a reservation just before
- *     the write would hold it). Then ONE statement (writable CTEs, rows sent as column arrays) for the new
+ *  6. The writes. A batch that changes an existing record had its change sequences reserved in step 2
+ *     (one per mutation not answered before, the organisation's counter row locked before the records'
+ *     rows, in every writer's order; what the batch does not use is given back in the write — no gap).
+ *     A batch that only creates records reserves exactly what it uses here, once decided: its reads and
+ *     checks do not wait for another push of the organisation to commit, which matters when a device
+ *     has two batches on the way (shared/sync/push-plan.ts). The counter row stays locked to the end of
+ *     the transaction either way (the pull's ordering rests on it). Then ONE statement (writable CTEs, rows sent as column arrays) for the new
  *     records (a plain INSERT per entity), the changed ones (`… ON CONFLICT (id) DO UPDATE`), the
  *     sequence-only touches, the change_log rows, the audit rows, the stored answers and the repeat
- *     queue — BEGIN, three statements and COMMIT per batch whatever its size. If the write fails on a
+ *     queue — BEGIN, three statements (four for a batch of creates) and COMMIT per batch whatever its size. If the write fails on a
  *     database constraint the schemas do not express (or on a key a racing push took, step 2), the whole
  *     transaction runs again in careful mode, each record in its own savepoint: the failing record's
  *     mutations are rejected (CONSTRAINT_FAILED), the rest apply.
@@ -481,8 +483,9 @@ export function createSyncService(deps: SyncServiceDeps) {
     }
     if (events.length === 0) return finish(tx, actor, deviceId, live, results, giveBack(0));
 
-    // 6. Sequences for every event, in order (the reserved ones; more, continuing them, should the
-    // reservation ever fall short); a record's row carries the last one.
+    // 6. Sequences for every event, in order: those reserved with the context (a batch that changes an
+    // existing record), or reserved now (a batch that only creates records, or should the reservation
+    // ever fall short); a record's row carries the last one.
     const extra = events.length > reserved.count ? await repo.reserveChangeSeqs(tx, organisationId, events.length - reserved.count) : [];
     const seqs = [...Array.from({ length: Math.min(events.length, reserved.count) }, (_, i) => reserved.first + i), ...extra];
     events.forEach((e, i) => (e.seq = seqs[i]!));
