@@ -269,4 +269,59 @@ describe('push', () => {
     expect(rows[0]!.after.created?.map((c) => c.id)).toEqual([station.id]);
     expect(rows[1]).toMatchObject({ before: { xM: 10 }, after: { xM: 11 } });
   });
+
+  it('gives every trace of a batch the sequences its answers carry, a create and an edit of one record in one batch included', async () => {
+    // A batch of new records reserves its sequences in its write statement, a batch that changes an
+    // existing record before it decides: both must leave the same numbers in the records, change_log,
+    // the stored answers and the audit rows as in the answers sent back.
+    const station = makeStation(scope);
+    const first = makeReading(scope, station.id);
+    const fixed = edited(first, { notes: 'probe re-zeroed' });
+    const batch = [mutationFor('stations', station), mutationFor('field_readings', first), mutationFor('field_readings', fixed)];
+    const fresh = await pushOk(surveyor, batch, 'trace-device');
+    const later = edited(station, { xM: 12 });
+    const changed = await pushOk(surveyor, [mutationFor('stations', later)], 'trace-device');
+    const applied = [...fresh, ...changed].map((r) => {
+      if (r.status !== 'applied') throw new Error(JSON.stringify(r));
+      return r;
+    });
+    const seqs = applied.map((r) => r.changeSeq);
+    expect(new Set(seqs).size).toBe(4);
+    expect(seqs[1]! < seqs[2]! && seqs[0]! < seqs[1]! && seqs[2]! < seqs[3]!).toBe(true);
+    const [readingRow] = await sql<{ change_seq: string; revision: number }>(t.databaseUrl, 'SELECT change_seq, revision FROM field_readings WHERE id = $1', [first.id]);
+    expect({ seq: Number(readingRow!.change_seq), revision: readingRow!.revision }).toEqual({ seq: applied[2]!.changeSeq, revision: 2 });
+    const [stationRow] = await sql<{ change_seq: string }>(t.databaseUrl, 'SELECT change_seq FROM stations WHERE id = $1', [station.id]);
+    expect(Number(stationRow!.change_seq)).toBe(applied[3]!.changeSeq);
+    const log = await sql<{ seq: string; entity_id: string; revision: number }>(
+      t.databaseUrl,
+      'SELECT seq, entity_id, revision FROM change_log WHERE entity_id IN ($1, $2) ORDER BY seq',
+      [station.id, first.id],
+    );
+    expect(log.map((l) => [Number(l.seq), l.entity_id, l.revision])).toEqual([
+      [applied[0]!.changeSeq, station.id, 1],
+      [applied[1]!.changeSeq, first.id, 1],
+      [applied[2]!.changeSeq, first.id, 2],
+      [applied[3]!.changeSeq, station.id, 2],
+    ]);
+    const stored = await sql<{ mutation_id: string; applied_change_seq: string }>(
+      t.databaseUrl,
+      `SELECT mutation_id, applied_change_seq FROM sync_mutations WHERE device_id = 'trace-device'`,
+    );
+    expect(new Map(stored.map((r) => [r.mutation_id, Number(r.applied_change_seq)]))).toEqual(new Map(applied.map((r) => [r.mutationId, r.changeSeq])));
+    const audits = await sql<{ action: string; after: { changeSeq?: number; created?: { id: string; changeSeq: number }[] } }>(
+      t.databaseUrl,
+      `SELECT action, after FROM audit_log WHERE entity_id IN ($1, $2, 'trace-device') ORDER BY id`,
+      [station.id, first.id],
+    );
+    expect(audits.map((r) => r.action)).toEqual(['update', 'sync_push', 'update', 'sync_push']);
+    expect(audits[0]!.after.changeSeq).toBe(applied[2]!.changeSeq);
+    expect(audits[1]!.after.created).toEqual([
+      { entity: 'stations', id: station.id, revision: 1, changeSeq: applied[0]!.changeSeq },
+      { entity: 'field_readings', id: first.id, revision: 1, changeSeq: applied[1]!.changeSeq },
+    ]);
+    expect(audits[2]!.after.changeSeq).toBe(applied[3]!.changeSeq);
+    expect(audits[3]!.after.created).toEqual([]);
+    // A retry of the first batch replays the same answers.
+    expect(await pushOk(surveyor, batch, 'trace-device')).toEqual(fresh);
+  });
 });

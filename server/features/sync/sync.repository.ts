@@ -105,12 +105,13 @@ const q = (name: string) => `"${name.replace(/"/g, '""')}"`;
  * same rows out of one JSON text with `json_to_recordset`, and the five-column change_log insert half
  * as dear.
  */
-function recordset(columns: ColumnSpec[], rows: Record<string, unknown>[]): { from: SQL; select: string; names: string } {
+function recordset(columns: ColumnSpec[], rows: Record<string, unknown>[], seqBase?: string): { from: SQL; select: string; names: string } {
   return {
     from: unnestColumns(
       columns.map((c) => ({ alias: c.key, type: c.type, values: rows.map((r) => (c.type === 'jsonb' ? jsonText(r[c.key]) : (r[c.key] ?? null))) })),
     ),
-    select: columns.map((c) => `u.${q(c.key)}`).join(', '),
+    // `seqBase`: the rows' changeSeq are places in a batch, added to the base the statement reserved.
+    select: columns.map((c) => (seqBase && c.key === 'changeSeq' ? `${seqBase} + u.${q(c.key)}` : `u.${q(c.key)}`)).join(', '),
     names: columns.map((c) => q(c.name)).join(', '),
   };
 }
@@ -174,10 +175,10 @@ function mapRow(entity: CaptureEntity, raw: Record<string, unknown>): DbRow {
  * Inserts records or overwrites existing ones of one entity. The WHERE keeps a row of another
  * organisation untouched even if a check upstream were missed.
  */
-function upsertStatement(entity: CaptureEntity, rows: Record<string, unknown>[]): SQL {
+function upsertStatement(entity: CaptureEntity, rows: Record<string, unknown>[], seqBase?: string): SQL {
   const table = q(entity);
   const columns = WRITABLE[entity];
-  const u = recordset(columns, rows);
+  const u = recordset(columns, rows, seqBase);
   const updates = columns
     .filter((c) => c.key !== 'id' && c.key !== 'organisationId')
     .map((c) => `${q(c.name)} = EXCLUDED.${q(c.name)}`)
@@ -401,8 +402,15 @@ export function createSyncRepository(db: Db) {
      * A push batch's writes in ONE statement (writable CTEs; foreign keys are checked at its end, so a
      * reading may name a station inserted beside it): new records in a plain INSERT and changed ones in
      * an upsert per table, the sequence-only touches, then the change_log rows, the stored answers, the
-     * audit rows and the repeat-recomputation queue entries. `records` is empty when the records were
+     * audit rows — the batch's `sync_push` row, listing the records it created, made here from the
+     * changes — and the repeat-recomputation queue entries. `records` is empty when the records were
      * written already (careful mode, one savepoint each) and there is nothing to touch.
+     *
+     * Sequences: with `reserve` > 0 the statement first reserves that many from the organisation's
+     * counter (locking its row to the end of the transaction) and every sequence given — rows'
+     * changeSeq, changes' seq, answers' changeSeq, audits' changeSeq — is a place in the batch (1, 2, …)
+     * added to the reserved base; the base is returned. With `reserve` 0 they are the sequences
+     * themselves and 0 is returned.
      *
      * The answers are a plain INSERT (no ON CONFLICT: its speculative insertion costs a tenth of a push):
      * the batch's mutation ids were looked up after its record locks, so a duplicate can only come from
@@ -417,37 +425,48 @@ export function createSyncRepository(db: Db) {
         userId: string;
         requestId: string | null;
         records: { entity: CaptureEntity; inserts: Record<string, unknown>[]; upserts: Record<string, unknown>[]; touches: { id: string; changeSeq: number }[] }[];
-        changes: { seq: number; entity: SyncedEntity; entityId: string; revision: number; deleted: boolean }[];
+        /** `created`: listed in the batch's sync_push audit row. */
+        changes: { seq: number; entity: SyncedEntity; entityId: string; revision: number; deleted: boolean; created: boolean }[];
         mutations: { mutationId: string; entity: string; recordId: string; queuedAt: string | null; result: Record<string, unknown> }[];
-        audits: { action: string; entity: string; entityId: string; before: unknown; after: unknown }[];
+        /** `changeSeq`, when given, is set into `after`. */
+        audits: { action: string; entity: string; entityId: string; before: unknown; after: unknown; changeSeq?: number }[];
+        /** The batch's own audit row (with the device and the records created), or null for none. */
+        pushAudit: { mutations: number } | null;
         dirtySurveyIds: string[];
         /** The organisation's counter as the batch leaves it (the reserved sequences it did not use given back), or null to leave it. */
         counter: number | null;
+        reserve: number;
       },
-    ): Promise<void> {
+    ): Promise<number> {
       const org = sql`${input.organisationId}::uuid`;
+      const base = '(SELECT base FROM seq)';
       const col = <T>(list: T[], alias: string, type: string, value: (x: T) => unknown) => ({ alias, type, values: list.map(value) });
-      const ctes: SQL[] = [];
+      const ctes: SQL[] = [
+        input.reserve > 0
+          ? sql`seq AS (UPDATE organisations SET change_seq = change_seq + ${input.reserve}::int WHERE id = ${org} RETURNING change_seq - ${input.reserve}::int AS base)`
+          : sql`seq AS (SELECT 0::bigint AS base)`,
+      ];
       input.records.forEach(({ entity, inserts, upserts, touches }, n) => {
         const table = sql.raw(q(entity));
         if (inserts.length > 0) {
-          const u = recordset(WRITABLE[entity], inserts);
+          const u = recordset(WRITABLE[entity], inserts, base);
           ctes.push(sql`${sql.raw(`new_${n}`)} AS (INSERT INTO ${table} (${sql.raw(u.names)}) SELECT ${sql.raw(u.select)} FROM ${u.from})`);
         }
-        if (upserts.length > 0) ctes.push(sql`${sql.raw(`changed_${n}`)} AS (${upsertStatement(entity, upserts)})`);
+        if (upserts.length > 0) ctes.push(sql`${sql.raw(`changed_${n}`)} AS (${upsertStatement(entity, upserts, base)})`);
         if (touches.length > 0) {
           const u = unnestColumns([col(touches, 'id', 'uuid', (x) => x.id), col(touches, 'seq', 'bigint', (x) => x.changeSeq)]);
-          ctes.push(sql`${sql.raw(`touched_${n}`)} AS (UPDATE ${table} t SET change_seq = u.seq, updated_at = now() FROM ${u} WHERE t.id = u.id)`);
+          ctes.push(sql`${sql.raw(`touched_${n}`)} AS (UPDATE ${table} t SET change_seq = ${sql.raw(base)} + u.seq, updated_at = now() FROM ${u} WHERE t.id = u.id)`);
         }
       });
       if (input.counter !== null) ctes.push(sql`counter AS (UPDATE organisations SET change_seq = ${input.counter} WHERE id = ${org})`);
       const { changes: c, mutations: m, audits: a } = input;
-      const log = unnestColumns([
+      const changes = unnestColumns([
         col(c, 's', 'bigint', (x) => x.seq),
         col(c, 'e', 'text', (x) => x.entity),
         col(c, 'i', 'uuid', (x) => x.entityId),
         col(c, 'r', 'integer', (x) => x.revision),
         col(c, 'd', 'boolean', (x) => x.deleted),
+        col(c, 'cr', 'boolean', (x) => x.created),
       ]);
       const answers = unnestColumns([
         col(m, 'mi', 'uuid', (x) => x.mutationId),
@@ -465,21 +484,36 @@ export function createSyncRepository(db: Db) {
         col(a, 'i', 'text', (x) => x.entityId),
         col(a, 'b', 'jsonb', (x) => jsonText(x.before)),
         col(a, 'af', 'jsonb', (x) => jsonText(x.after)),
+        col(a, 'so', 'bigint', (x) => x.changeSeq ?? null),
       ]);
-      await tx.execute(sql`
-        WITH ${sql.join([...ctes, sql``], sql`, `)}log AS (
+      const pushAudit = input.pushAudit
+        ? sql`
+          UNION ALL
+          SELECT 'sync_push', 'sync_batch', ${input.deviceId}, NULL, jsonb_build_object(
+            'deviceId', ${input.deviceId}::text, 'mutations', ${input.pushAudit.mutations}::int,
+            'created', COALESCE((SELECT jsonb_agg(jsonb_build_object('entity', e, 'id', i, 'revision', r, 'changeSeq', ${sql.raw(base)} + s) ORDER BY s) FROM changes WHERE cr), '[]'::jsonb))`
+        : sql``;
+      const result = await tx.execute<{ base: string | number }>(sql`
+        WITH ${sql.join([...ctes, sql``], sql`, `)}changes AS MATERIALIZED (
+          SELECT * FROM ${changes}
+        ), log AS (
           INSERT INTO change_log (organisation_id, seq, entity, entity_id, revision, deleted)
-          SELECT ${org}, s, e, i, r, d FROM ${log}
+          SELECT ${org}, ${sql.raw(base)} + s, e, i, r, d FROM changes
         ), answers AS (
           INSERT INTO sync_mutations (organisation_id, mutation_id, device_id, user_id, entity, record_id, queued_at, applied_revision, applied_change_seq, result)
-          SELECT ${org}, mi, ${input.deviceId}, ${input.userId}::uuid, e, r, qa, ar, ac, res FROM ${answers}
+          SELECT ${org}, mi, ${input.deviceId}, ${input.userId}::uuid, e, r, qa, ar, ${sql.raw(base)} + ac, res FROM ${answers}
         ), audit AS (
           INSERT INTO audit_log (organisation_id, actor_user_id, action, entity, entity_id, before, after, request_id)
-          SELECT ${org}, ${input.userId}::uuid, ac, e, i, b, af, ${input.requestId} FROM ${audit}
+          SELECT ${org}, ${input.userId}::uuid, ac, e, i, b, af, ${input.requestId} FROM (
+            SELECT ac, e, i, b, CASE WHEN so IS NULL THEN af ELSE jsonb_set(af, '{changeSeq}', to_jsonb(${sql.raw(base)} + so)) END AS af FROM ${audit}
+            ${pushAudit}) rows
+        ), queue AS (
+          INSERT INTO repeat_recompute_queue (survey_id, organisation_id, requested_at)
+          SELECT s, ${org}, clock_timestamp() FROM unnest(${uuids(input.dirtySurveyIds)}) AS s
+          ON CONFLICT (survey_id) DO UPDATE SET requested_at = clock_timestamp()
         )
-        INSERT INTO repeat_recompute_queue (survey_id, organisation_id, requested_at)
-        SELECT s, ${org}, clock_timestamp() FROM unnest(${uuids(input.dirtySurveyIds)}) AS s
-        ON CONFLICT (survey_id) DO UPDATE SET requested_at = clock_timestamp()`);
+        SELECT base FROM seq`);
+      return Number(result.rows[0]!.base);
     },
 
     // ------------------------------------------------------------------------------------ the writes

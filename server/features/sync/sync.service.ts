@@ -196,6 +196,9 @@ interface WriteEvent {
   conflict?: ConflictDraft;
 }
 
+/** An audit row of a push; `changeSeq`, when given, is set into `after` by the write (see writeBatch). */
+type AuditDraft = { action: string; entity: string; entityId: string; before: unknown; after: unknown; changeSeq?: number };
+
 interface ConflictDraft {
   kind: 'edit_vs_edit' | 'edit_vs_delete' | 'delete_vs_edit';
   serverRevision: number;
@@ -481,13 +484,21 @@ export function createSyncService(deps: SyncServiceDeps) {
         pendingConflictResults.push({ index: c.index, event, server: cur.wire });
       }
     }
-    if (events.length === 0) return finish(tx, actor, deviceId, live, results, giveBack(0));
+    if (events.length === 0) {
+      await finish(tx, actor, deviceId, live, results, giveBack(0));
+      return;
+    }
 
-    // 6. Sequences for every event, in order: those reserved with the context (a batch that changes an
-    // existing record), or reserved now (a batch that only creates records, or should the reservation
-    // ever fall short); a record's row carries the last one.
-    const extra = events.length > reserved.count ? await repo.reserveChangeSeqs(tx, organisationId, events.length - reserved.count) : [];
-    const seqs = [...Array.from({ length: Math.min(events.length, reserved.count) }, (_, i) => reserved.first + i), ...extra];
+    // 6. Sequences for every event, in order; a record's row carries the last one. A batch that changes
+    // an existing record reserved them with the context (more, continuing them, should that ever fall
+    // short; careful mode reserves here, as it writes records one by one before the last statement).
+    // A batch that only creates records leaves the reservation to its write statement, the first thing
+    // it does, so nothing of this process's work waits under the organisation's counter lock: until
+    // then each event's `seq` is its place in the batch (1, 2, …), which the statement adds to the base
+    // it reserves, and the answers are put right once it returns (`base`).
+    const deferred = !careful && reserved.count === 0;
+    const extra = !deferred && events.length > reserved.count ? await repo.reserveChangeSeqs(tx, organisationId, events.length - reserved.count) : [];
+    const seqs = deferred ? events.map((_, i) => i + 1) : [...Array.from({ length: Math.min(events.length, reserved.count) }, (_, i) => reserved.first + i), ...extra];
     events.forEach((e, i) => (e.seq = seqs[i]!));
     const finalSeq = new Map<string, number>();
     for (const e of events) finalSeq.set(e.recordId, e.seq!);
@@ -557,25 +568,18 @@ export function createSyncService(deps: SyncServiceDeps) {
       results[p.index] = { mutationId: p.event.conflict!.mutation.mutationId, status: 'conflict', conflictId: p.event.conflict!.id!, server: { ...p.server, changeSeq: finalSeq.get(p.event.recordId)! } };
     }
 
-    // Audit.
-    const creates = survivors.filter((e) => e.kind === 'write' && e.action === 'create');
-    const perRecord: { action: string; entity: string; entityId: string; before: unknown; after: unknown }[] = survivors
+    // Audit (the batch's `sync_push` row, listing the creations, is written from `changes` by the write).
+    const perRecord: AuditDraft[] = survivors
       .filter((e) => (e.kind === 'write' && e.action !== 'create') || e.conflict)
       .map((e) => ({
         action: e.conflict ? `sync_conflict_${e.conflict.kind}` : e.action!,
         entity: e.entity,
         entityId: e.recordId,
         before: e.conflict && e.kind === 'touch' ? e.conflict.serverVersion : (e.before ?? null),
-        after: e.conflict && e.kind === 'touch' ? { kept: 'server', incoming: e.conflict.incoming, conflictId: e.conflict.id } : { ...e.record!, changeSeq: e.seq },
+        after: e.conflict && e.kind === 'touch' ? { kept: 'server', incoming: e.conflict.incoming, conflictId: e.conflict.id } : e.record!,
+        ...(e.conflict && e.kind === 'touch' ? {} : { changeSeq: e.seq! }),
       }));
-    perRecord.push({
-      action: 'sync_push',
-      entity: 'sync_batch',
-      entityId: deviceId,
-      before: null,
-      after: { deviceId, created: creates.map((e) => ({ entity: e.entity, id: e.recordId, revision: e.revision, changeSeq: e.seq })), mutations: live.length },
-    });
-    const changes = survivors.map((e) => ({ seq: e.seq!, entity: e.entity as SyncedEntity, entityId: e.recordId, revision: e.revision, deleted: e.deleted }));
+    const changes = survivors.map((e) => ({ seq: e.seq!, entity: e.entity as SyncedEntity, entityId: e.recordId, revision: e.revision, deleted: e.deleted, created: e.kind === 'write' && e.action === 'create' }));
 
     // The writes, one statement. Fast path: new records in a plain INSERT per entity, changed ones in an
     // upsert (careful mode wrote them above, each in its savepoint). Records marked conflicted (or
@@ -592,7 +596,14 @@ export function createSyncService(deps: SyncServiceDeps) {
         touches: [...touches].map(([id, changeSeq]) => ({ id, changeSeq })),
       };
     });
-    await finish(tx, actor, deviceId, live, results, giveBack(events.length), [...dirtySurveys], changes, perRecord, records);
+    const base = await finish(tx, actor, deviceId, live, results, deferred ? null : giveBack(events.length), [...dirtySurveys], changes, perRecord, records, deferred ? events.length : 0);
+    if (deferred) {
+      // Every answer of a batch of creations is `applied` at one of its own events' places.
+      for (const c of live) {
+        const r = results[c.index];
+        if (r?.status === 'applied') results[c.index] = { ...r, changeSeq: base + r.changeSeq };
+      }
+    }
   }
 
   /**
@@ -607,10 +618,12 @@ export function createSyncService(deps: SyncServiceDeps) {
     results: (PushResult | undefined)[],
     counter: number | null,
     dirty: string[] = [],
-    changes: { seq: number; entity: SyncedEntity; entityId: string; revision: number; deleted: boolean }[] = [],
-    audits: { action: string; entity: string; entityId: string; before: unknown; after: unknown }[] = [],
+    changes: Parameters<SyncRepository['writeBatch']>[1]['changes'] = [],
+    audits: AuditDraft[] = [],
     records: Parameters<SyncRepository['writeBatch']>[1]['records'] = [],
-  ) {
+    /** How many change sequences the write reserves itself (the `seq`s given are then 1, 2, …). */
+    reserve = 0,
+  ): Promise<number> {
     // The answer is stored without its mutation id (the row's key; put back when it is read again).
     const mutations = live
       .filter((c) => results[c.index] && results[c.index]!.status !== 'rejected')
@@ -618,7 +631,20 @@ export function createSyncService(deps: SyncServiceDeps) {
         const { mutationId: _key, ...answer } = results[c.index]!;
         return { mutationId: c.mutation.mutationId, entity: c.mutation.entity, recordId: c.mutation.recordId, queuedAt: c.mutation.queuedAt, result: answer as Record<string, unknown> };
       });
-    await repo.writeBatch(tx, { organisationId: actor.organisationId, deviceId, userId: actor.userId, requestId: actor.requestId ?? null, records, changes, mutations, audits, dirtySurveyIds: dirty, counter });
+    return repo.writeBatch(tx, {
+      organisationId: actor.organisationId,
+      deviceId,
+      userId: actor.userId,
+      requestId: actor.requestId ?? null,
+      records,
+      changes,
+      mutations,
+      audits,
+      pushAudit: changes.length > 0 || audits.length > 0 ? { mutations: live.length } : null,
+      dirtySurveyIds: dirty,
+      counter,
+      reserve,
+    });
   }
 
   // ------------------------------------------------------------------------------------------ pull
