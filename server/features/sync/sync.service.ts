@@ -41,16 +41,18 @@
  *  6. The writes. A batch that changes an existing record had its change sequences reserved in step 2
  *     (one per mutation not answered before, the organisation's counter row locked before the records'
  *     rows, in every writer's order; what the batch does not use is given back in the write — no gap).
- *     A batch that only creates records reserves exactly what it uses here, once decided: its reads and
- *     checks do not wait for another push of the organisation to commit, which matters when a device
- *     has two batches on the way (shared/sync/push-plan.ts). The counter row stays locked to the end of
- *     the transaction either way (the pull's ordering rests on it). Then ONE statement (writable CTEs, rows sent as column arrays) for the new
- *     records (a plain INSERT per entity), the changed ones (`… ON CONFLICT (id) DO UPDATE`), the
- *     sequence-only touches, the change_log rows, the audit rows, the stored answers and the repeat
- *     queue — BEGIN, three statements (four for a batch of creates) and COMMIT per batch whatever its size. If the write fails on a
- *     database constraint the schemas do not express (or on a key a racing push took, step 2), the whole
- *     transaction runs again in careful mode, each record in its own savepoint: the failing record's
- *     mutations are rejected (CONSTRAINT_FAILED), the rest apply.
+ *     A batch that only creates records reserves exactly what it uses in its write statement, the first
+ *     thing that statement does: its reads, checks and decisions do not wait for another push of the
+ *     organisation to commit, which matters when a device has two batches on the way
+ *     (shared/sync/push-plan.ts). The counter row stays locked to the end of the transaction either way
+ *     (the pull's ordering rests on it). Then ONE statement (writable CTEs, rows sent as column arrays)
+ *     for the new records (a plain INSERT per entity), the changed ones (`… ON CONFLICT (id) DO
+ *     UPDATE`), the sequence-only touches, the change_log rows, the audit rows, the stored answers and
+ *     the repeat queue — BEGIN, two statements (a third when the batch records conflicts) and COMMIT per
+ *     batch whatever its size. If the write fails on a database constraint the schemas do not express
+ *     (or on a key a racing push took, step 2), the whole transaction runs again in careful mode, each
+ *     record in its own savepoint: the failing record's mutations are rejected (CONSTRAINT_FAILED), the
+ *     rest apply.
  *  7. Audit: every update, tombstone, revival and conflict has its own audit_log row with before and
  *     after; creations are listed (entity, id, revision) in one `sync_push` row per batch with the device,
  *     because a created record's "after" is the row itself and writing 500 copies of it would double the
