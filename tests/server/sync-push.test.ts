@@ -8,7 +8,7 @@ import { PushResponseSchema, type PushResult } from '../../shared/schemas/sync';
 import type { Mutation } from '../../shared/sync/mutation';
 import { seedDemo } from '../../server/db/seed/demo';
 import { countRows, demoEmail, expectError, signIn, sql, type SignedIn } from '../setup/api-helpers';
-import { edited, makeReading, makeStation, makeWalk, mutationFor, readDemoIds, type DemoIds, type Scope } from '../setup/sync-fixtures';
+import { edited, makeReading, makeStation, makeSweep, makeWalk, mutationFor, readDemoIds, type DemoIds, type Scope } from '../setup/sync-fixtures';
 import { createTestApp, TRUSTED_ORIGIN, type InProcessApp } from '../setup/test-app';
 
 let t: InProcessApp;
@@ -268,6 +268,33 @@ describe('push', () => {
     expect(rows.map((r) => r.action)).toEqual(['sync_push', 'update', 'sync_push']);
     expect(rows[0]!.after.created?.map((c) => c.id)).toEqual([station.id]);
     expect(rows[1]).toMatchObject({ before: { xM: 10 }, after: { xM: 11 } });
+  });
+
+  it('stores every field of every record as sent, whether it varies across the batch or is the same in every row', async () => {
+    // The write sends a column that has one value in every row once, and the others as arrays; quotes,
+    // backslashes, commas, braces, nulls, tiny and negative numbers and nested JSON must all arrive intact.
+    const walk = makeWalk(scope, { deviceLabel: 'tablet "B", shelf {2}', notes: 'back\\slash' });
+    const stations = [makeStation(scope, { walkId: walk.id, xM: -3.25, yM: 1e-9, label: 'A,1', notes: null }), makeStation(scope, { walkId: walk.id, xM: 4, yM: 5, label: 'NULL', notes: 'a "quoted" note' })];
+    const readings = [
+      makeReading(scope, stations[0]!.id, { walkId: walk.id, magnitudeT: 2.5e-7, notes: 'first, with comma' }),
+      makeReading(scope, stations[0]!.id, { walkId: walk.id, magnitudeT: null, bxT: -0.001, byT: 0, bzT: 3.5e-5, unit: 'G', probeOrientation: 'horizontal', notes: null }),
+      makeReading(scope, stations[1]!.id, { walkId: walk.id, magnitudeT: 1.75, zeroed: false, backgroundT: 4.9e-5, notes: '' }),
+    ];
+    const sweeps = [
+      makeSweep(scope, stations[1]!.id, { walkId: walk.id, peaks: [{ frequencyHz: 2.8e9, levelDbm: -61.5 }], notes: 'peak at "28 GHz", {x}' }),
+      makeSweep(scope, stations[1]!.id, { walkId: walk.id, peaks: [], detector: 'rms', vbwHz: 3e4 }),
+    ];
+    const sent: [string, Record<string, unknown>][] = [['walks', walk], ...stations.map((r) => ['stations', r] as [string, Record<string, unknown>]), ...readings.map((r) => ['field_readings', r] as [string, Record<string, unknown>]), ...sweeps.map((r) => ['sweeps', r] as [string, Record<string, unknown>])];
+    const results = await pushOk(surveyor, sent.map(([entity, r]) => mutationFor(entity as Mutation['entity'], r as never)));
+    expect(results.every((r) => r.status === 'applied')).toBe(true);
+    for (const [entity, record] of sent) {
+      const [row] = await sql<{ j: Record<string, unknown> }>(t.databaseUrl, `SELECT to_jsonb(x) AS j FROM ${entity} x WHERE id = $1`, [record.id]);
+      for (const [key, value] of Object.entries(record)) {
+        const stored = row!.j[key.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)];
+        const isTime = typeof value === 'string' && /^\d{4}-\d\d-\d\dT/.test(value);
+        expect(isTime ? Date.parse(stored as string) : stored, `${entity}.${key}`).toEqual(isTime ? Date.parse(value) : value);
+      }
+    }
   });
 
   it('gives every trace of a batch the sequences its answers carry, a create and an edit of one record in one batch included', async () => {

@@ -103,17 +103,22 @@ const q = (name: string) => `"${name.replace(/"/g, '""')}"`;
  * each sent as one PostgreSQL array literal (missing keys become NULL; a jsonb column's values are
  * sent as JSON texts). Measured on 500 readings: the insert is about a tenth cheaper than parsing the
  * same rows out of one JSON text with `json_to_recordset`, and the five-column change_log insert half
- * as dear.
+ * as dear. A column with one value in every row (the organisation, the survey, the surveyor, a unit)
+ * is sent once, as a single parameter, not repeated in an array.
  */
-function recordset(columns: ColumnSpec[], rows: Record<string, unknown>[], seqBase?: string): { from: SQL; select: string; names: string } {
-  return {
-    from: unnestColumns(
-      columns.map((c) => ({ alias: c.key, type: c.type, values: rows.map((r) => (c.type === 'jsonb' ? jsonText(r[c.key]) : (r[c.key] ?? null))) })),
-    ),
+function recordset(columns: ColumnSpec[], rows: Record<string, unknown>[], seqBase?: string): { from: SQL; select: SQL; names: string } {
+  const value = (c: ColumnSpec, r: Record<string, unknown>) => (c.type === 'jsonb' ? jsonText(r[c.key]) : (r[c.key] ?? null));
+  const arrays: { alias: string; type: string; values: unknown[] }[] = [];
+  const select = columns.map((c) => {
+    const values = rows.map((r) => value(c, r));
+    const first = values[0];
+    const constant = rows.length > 1 && c.key !== 'id' && (first === null || typeof first !== 'object') && values.every((v) => v === first);
+    if (!constant) arrays.push({ alias: c.key, type: c.type, values });
+    const expr = constant ? sql`${Object.is(first, -0) ? '-0' : first}::${sql.raw(c.type)}` : sql.raw(`u.${q(c.key)}`);
     // `seqBase`: the rows' changeSeq are places in a batch, added to the base the statement reserved.
-    select: columns.map((c) => (seqBase && c.key === 'changeSeq' ? `${seqBase} + u.${q(c.key)}` : `u.${q(c.key)}`)).join(', '),
-    names: columns.map((c) => q(c.name)).join(', '),
-  };
+    return seqBase && c.key === 'changeSeq' ? sql`${sql.raw(seqBase)} + ${expr}` : expr;
+  });
+  return { from: unnestColumns(arrays), select: sql.join(select, sql`, `), names: columns.map((c) => q(c.name)).join(', ') };
 }
 
 /** An `applied` answer with nothing but its revision and sequence (no conflict id). */
@@ -185,7 +190,7 @@ function upsertStatement(entity: CaptureEntity, rows: Record<string, unknown>[],
     .join(', ');
   return sql`
     INSERT INTO ${sql.raw(table)} (${sql.raw(u.names)}, updated_at)
-    SELECT ${sql.raw(u.select)}, now() FROM ${u.from}
+    SELECT ${u.select}, now() FROM ${u.from}
     ON CONFLICT (id) DO UPDATE SET ${sql.raw(updates)}, updated_at = now()
     WHERE ${sql.raw(table)}.organisation_id = EXCLUDED.organisation_id`;
 }
@@ -450,7 +455,7 @@ export function createSyncRepository(db: Db) {
         const table = sql.raw(q(entity));
         if (inserts.length > 0) {
           const u = recordset(WRITABLE[entity], inserts, base);
-          ctes.push(sql`${sql.raw(`new_${n}`)} AS (INSERT INTO ${table} (${sql.raw(u.names)}) SELECT ${sql.raw(u.select)} FROM ${u.from})`);
+          ctes.push(sql`${sql.raw(`new_${n}`)} AS (INSERT INTO ${table} (${sql.raw(u.names)}) SELECT ${u.select} FROM ${u.from})`);
         }
         if (upserts.length > 0) ctes.push(sql`${sql.raw(`changed_${n}`)} AS (${upsertStatement(entity, upserts, base)})`);
         if (touches.length > 0) {
