@@ -33,6 +33,17 @@ describe('watchBandsToCsv', () => {
   });
 });
 
+describe('watch band CSV and spreadsheet formulas', () => {
+  it('writes texts a spreadsheet would run (OWASP "CSV Injection": = + - @) with a leading apostrophe, and reads them back as they were', () => {
+    const tricky = band({ name: '=cmd|calc', reason: '+44 reserved', source: '@registry', notes: '-3 dB margin', thresholdDbWPerM2Hz: -239 });
+    const csv = watchBandsToCsv([tricky]);
+    expect(csv.split('\r\n')[1]).toBe("'=cmd|calc,100,110,'+44 reserved,'@registry,medium,-239,'-3 dB margin");
+    const out = parseWatchBandCsv(csv);
+    expect(out.errors).toEqual([]);
+    expect(out.valid[0]!.band).toMatchObject({ name: '=cmd|calc', reason: '+44 reserved', source: '@registry', notes: '-3 dB margin', thresholdDbWPerM2Hz: -239 });
+  });
+});
+
 describe('parseWatchBandCsv', () => {
   it('reads back everything it wrote: the whole starter set', () => {
     const rows = STARTER_WATCH_BANDS.map((b) => band({ ...b, thresholdDbWPerM2Hz: b.thresholdDbWPerM2Hz ?? null, notes: null }));

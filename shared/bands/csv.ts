@@ -1,12 +1,14 @@
 /**
  * Watch bands as CSV (issue 8 §1): RFC 4180 (quoted where needed, CRLF line ends), one band per row,
- * frequencies in MHz with the unit in the header. Only organisation-wide bands travel in the file; a
+ * frequencies in MHz with the unit in the header; text cells a spreadsheet would run as a formula get a
+ * leading apostrophe (../csv/formula.ts). Only organisation-wide bands travel in the file; a
  * site's own bands (a scanner's receive band) are kept on the site.
  *
  * Reading checks every row and reports each bad one with its 1-based line number in the file (the
  * header is line 1), so nothing of a file with errors is imported unless the caller asks for the good rows.
  */
 import Papa from 'papaparse';
+import { protectCell, unprotectCell } from '../csv/formula';
 import { WatchBandCreateSchema, type WatchBandCreate } from '../schemas/watch-band';
 
 export const WATCH_BAND_CSV_COLUMNS = ['name', 'lower_MHz', 'upper_MHz', 'reason', 'source', 'severity', 'threshold_dBW_per_m2_Hz', 'notes'] as const;
@@ -26,7 +28,8 @@ export interface WatchBandCsvRow {
 const mhz = (hz: number) => String(Number((hz / 1e6).toPrecision(12)));
 
 export function watchBandsToCsv(bands: readonly WatchBandCsvRow[]): string {
-  const rows = bands.map((b) => [b.name, mhz(b.lowerHz), mhz(b.upperHz), b.reason, b.source, b.severity, b.thresholdDbWPerM2Hz ?? '', b.notes ?? '']);
+  // Text cells protected against spreadsheet formulas; the threshold (often negative) stays a number.
+  const rows = bands.map((b) => [protectCell(b.name), mhz(b.lowerHz), mhz(b.upperHz), protectCell(b.reason), protectCell(b.source), b.severity, b.thresholdDbWPerM2Hz ?? '', protectCell(b.notes ?? '')]);
   return Papa.unparse({ fields: [...WATCH_BAND_CSV_COLUMNS], data: rows }, { newline: '\r\n', quotes: false }) + '\r\n';
 }
 
@@ -108,14 +111,14 @@ export function parseWatchBandCsv(input: string): WatchBandCsvResult {
     else if (Number.isNaN(upperMHz)) messages.push(`upper_MHz "${raw.upper_MHz}" is not a number.`);
     if (threshold !== null && Number.isNaN(threshold)) messages.push(`threshold_dBW_per_m2_Hz "${raw.threshold_dBW_per_m2_Hz}" is not a number.`);
     const candidate = {
-      name: raw.name ?? '',
+      name: unprotectCell(raw.name ?? ''),
       lowerHz: lowerMHz === null || Number.isNaN(lowerMHz) ? undefined : lowerMHz * 1e6,
       upperHz: upperMHz === null || Number.isNaN(upperMHz) ? undefined : upperMHz * 1e6,
-      reason: raw.reason ?? '',
-      source: raw.source ?? '',
+      reason: unprotectCell(raw.reason ?? ''),
+      source: unprotectCell(raw.source ?? ''),
       severity: (raw.severity ?? '').trim().toLowerCase() || undefined,
       thresholdDbWPerM2Hz: threshold === null || Number.isNaN(threshold) ? null : threshold,
-      notes: (raw.notes ?? '').trim() || null,
+      notes: unprotectCell(raw.notes ?? '').trim() || null,
     };
     const checked = WatchBandCreateSchema.safeParse(candidate);
     if (!checked.success) {

@@ -137,6 +137,31 @@ describe('readings CSV import', () => {
     expect(db!.magnitude_t).toBe(0.0005);
   });
 
+  it('writes a text a spreadsheet would run as a formula with a leading apostrophe, leaves numbers alone, and reads it back as it was', async () => {
+    // OWASP, "CSV Injection": cells starting with = + - @ tab or CR run as formulas in spreadsheets.
+    const target = await newSurvey('Formulas');
+    const note = '=HYPERLINK("http://example.invalid","click")';
+    const csv = [
+      'level_id,station_label,x_m,y_m,surveyor_email,measured_at,bx_mT,by_mT,bz_mT,notes',
+      `${ids.levelId},-west door,2.5,3.25,${demoEmail('surveyor')},2026-11-20T10:00:00.000Z,-0.25,0,0.125,"${note.replace(/"/g, '""')}"`,
+    ].join('\r\n');
+    expect(ImportReportSchema.parse((await importCsv(target, csv, 'all').expect(200)).body)).toMatchObject({ committed: true, importedReadings: 1 });
+    const [stored] = await sql<{ notes: string; bx_t: number }>(t.databaseUrl, 'SELECT notes, bx_t FROM field_readings WHERE survey_id = $1', [target]);
+    expect(stored).toEqual({ notes: note, bx_t: -0.00025 });
+    const { text } = await exportCsv(target);
+    const [row] = parse(text).data;
+    expect(row).toMatchObject({ notes: `'${note}`, station_label: "'-west door", bx_mT: '-0.25', by_mT: '0', bz_mT: '0.125' });
+    // Imported again, the apostrophes go: the note and the label are the surveyor's own text.
+    const again = await newSurvey('Formulas again');
+    expect(ImportReportSchema.parse((await importCsv(again, text, 'all').expect(200)).body)).toMatchObject({ committed: true, importedReadings: 1 });
+    const [back] = await sql<{ notes: string; label: string }>(
+      t.databaseUrl,
+      'SELECT r.notes, s.label FROM field_readings r JOIN stations s ON s.id = r.station_id WHERE r.survey_id = $1',
+      [again],
+    );
+    expect(back).toEqual({ notes: note, label: '-west door' });
+  });
+
   it('a file with bad rows gets a per-row report and nothing imported, unless the good rows are asked for', async () => {
     const target = await newSurvey('Bad rows');
     const good = (i: number) => `${ids.levelId},G${i},${i},1,${demoEmail('surveyor')},2026-11-20T10:0${i}:00Z,0.${i}1,,,,`;

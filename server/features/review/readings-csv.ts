@@ -1,7 +1,8 @@
 /**
  * The readings CSV (issue 7 §6): RFC 4180 text (CRLF line ends, fields with a comma, quote or line
  * break quoted, quotes doubled — papaparse's unparse with `quotes` on the text columns), one row per
- * live field reading, units in the header (`field_mT`, `x_m`).
+ * live field reading, units in the header (`field_mT`, `x_m`). Text cells that a spreadsheet would run
+ * as a formula are written with a leading apostrophe, and read back without it (shared/csv/formula.ts).
  *
  * Field values are written in millitesla by moving the decimal point of the stored tesla value's
  * shortest round-trip text (shared/review/decimal-shift.ts), so importing an exported file gives back
@@ -18,6 +19,7 @@
  */
 import Papa from 'papaparse';
 import { v7 as uuidv7 } from 'uuid';
+import { protectCell, unprotectCell } from '../../../shared/csv/formula';
 import { roomForPoint } from '../../../shared/plans/polygon';
 import { FieldReadingSchema } from '../../../shared/schemas/capture';
 import type { ImportReport } from '../../../shared/schemas/review';
@@ -86,21 +88,22 @@ export function createReadingsCsv(deps: { repo: ReviewRepository; review: Review
       const row = review_.get(r.id)!;
       const inst = r.instrumentId ? instruments.get(r.instrumentId) : undefined;
       const d = row.decision;
+      const text = (v: string | null | undefined) => protectCell(v ?? '');
       return [
         r.id,
         r.stationId,
-        st?.label ?? '',
+        text(st?.label),
         row.levelId,
-        row.levelName,
-        row.roomName ?? '',
+        text(row.levelName),
+        text(row.roomName),
         num(st?.xM ?? null),
         num(st?.yM ?? null),
         num(st?.heightM ?? null),
-        people.get(r.surveyorUserId)?.email ?? '',
-        row.surveyorName,
+        text(people.get(r.surveyorUserId)?.email),
+        text(row.surveyorName),
         r.instrumentId ?? '',
-        inst?.model ?? '',
-        inst?.serial ?? '',
+        text(inst?.model),
+        text(inst?.serial),
         r.measuredAt.toISOString(),
         mT(r.fieldT),
         mT(r.magnitudeT),
@@ -112,14 +115,15 @@ export function createReadingsCsv(deps: { repo: ReviewRepository; review: Review
         num(r.heightM),
         mT(r.backgroundT),
         r.zeroed ? 'true' : 'false',
-        r.notes ?? '',
-        row.safetyClass?.label ?? '',
+        text(r.notes),
+        text(row.safetyClass?.label),
         d?.verdict ?? '',
-        d?.note ?? '',
-        d?.reviewerName ?? '',
+        text(d?.note),
+        text(d?.reviewerName),
         d?.decidedAt ?? '',
       ];
     });
+    // Text cells are protected above (protectCell); papaparse's own escaping would also turn negative numbers into text.
     const csv = Papa.unparse({ fields: [...READINGS_CSV_COLUMNS], data: body }, { newline: '\r\n', quotes: false, escapeFormulae: false });
     const slug = survey.name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'survey';
     return { filename: `${slug}-readings.csv`, csv: `${csv}\r\n` };
@@ -181,7 +185,7 @@ export function createReadingsCsv(deps: { repo: ReviewRepository; review: Review
 
     rows.forEach((raw, index) => {
       const rowNo = index + 1;
-      const cell = (c: string | null) => (c ? (raw[c] ?? '').trim() : '');
+      const cell = (c: string | null) => (c ? unprotectCell(raw[c] ?? '').trim() : '');
       const before = errors.length;
       const number = (c: string, required: boolean, min?: number): number | null => {
         const v = cell(c);
@@ -269,7 +273,7 @@ export function createReadingsCsv(deps: { repo: ReviewRepository; review: Review
       if (!measuredText) fail(rowNo, 'measured_at', 'Give the time of the reading (ISO 8601, e.g. 2026-11-17T09:30:00Z).');
       else if (!/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d+)?)?(Z|[+-]\d{2}:?\d{2})$/.test(measuredText) || Number.isNaN(measured.getTime()))
         fail(rowNo, 'measured_at', `measured_at “${measuredText}” is not an ISO 8601 time with a zone (e.g. 2026-11-17T09:30:00Z).`);
-      const notes = cell('notes') ? (raw['notes'] ?? '').trim() : null;
+      const notes = cell('notes') ? unprotectCell(raw['notes'] ?? '').trim() : null;
 
       if (errors.length > before || !levelId || xM === null || yM === null || !surveyor) {
         bad.add(rowNo);
