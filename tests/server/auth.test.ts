@@ -76,6 +76,22 @@ describe('sign-in and sign-out', () => {
     expectError(await request(t.app).get('/api/auth/session').set('Cookie', cookie), 401, 'UNAUTHENTICATED');
   });
 
+  it('audits signing in and out against the user, with the request id, and not a sign-out without a session', async () => {
+    const { agent, session } = await signIn(t.app, demoEmail('emc'));
+    const out = await agent.post('/api/auth/sign-out').set('Origin', TRUSTED_ORIGIN).expect(204);
+    await request(t.app).post('/api/auth/sign-out').set('Origin', TRUSTED_ORIGIN).expect(204);
+    const rows = await sql<{ action: string; actor_user_id: string; entity: string; entity_id: string; organisation_id: string | null; request_id: string; after: unknown }>(
+      t.databaseUrl,
+      `SELECT action, actor_user_id, entity, entity_id, organisation_id, request_id, after FROM audit_log WHERE actor_user_id = $1 AND action IN ('sign_in', 'sign_out') ORDER BY id`,
+      [session.user.id],
+    );
+    expect(rows.map((r) => r.action).slice(-2)).toEqual(['sign_in', 'sign_out']);
+    const last = rows.at(-1)!;
+    expect(last).toMatchObject({ actor_user_id: session.user.id, entity: 'users', entity_id: session.user.id, organisation_id: null, after: null });
+    expect(last.request_id).toBe(out.headers['x-request-id']);
+    expect(await countRows(t.databaseUrl, 'audit_log', `action = 'sign_out' AND actor_user_id IS NULL`)).toBe(0);
+  });
+
   it('reads the membership on every request, so a membership taken away applies from the next request', async () => {
     const { agent, session } = await signIn(t.app, demoEmail('viewer'));
     const orgId = session.memberships[0]!.organisationId;
@@ -180,6 +196,9 @@ describe('invitations', () => {
     await invitee.get(`/api/orgs/${harrowbyId}/members`).expect(403);
     // And can sign in again with the password chosen at acceptance.
     await signIn(t.app, email, 'a-long-new-password');
+    // Accepting signed them in, which is audited like any sign-in (then the sign-in just above).
+    const signIns = await sql<{ n: number }>(t.databaseUrl, `SELECT count(*)::int AS n FROM audit_log WHERE action = 'sign_in' AND actor_user_id = $1`, [session.user.id]);
+    expect(signIns[0]!.n).toBe(2);
 
     // Every write left an audit row in the organisation.
     const audit = await sql<{ action: string; entity: string; entity_id: string; actor_user_id: string | null }>(

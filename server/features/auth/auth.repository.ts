@@ -55,6 +55,11 @@ export function createAuthRepository(db: Db) {
         .orderBy(organisations.name);
     },
 
+    /** A sign-in or sign-out, as an audit row of the user's own account (outside any organisation). */
+    async recordSessionEvent(userId: string, action: 'sign_in' | 'sign_out', requestId: string | null): Promise<void> {
+      await recordAudit(db, { organisationId: null, actorUserId: userId, action, entity: 'users', entityId: userId, before: null, after: null, requestId });
+    },
+
     async createResetToken(userId: string, tokenHash: string, expiresAt: Date, audit: AuditContext): Promise<void> {
       await db.transaction(async (tx) => {
         const [token] = await tx.insert(passwordResetTokens).values({ userId, tokenHash, expiresAt }).returning({ id: passwordResetTokens.id });

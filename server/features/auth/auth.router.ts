@@ -23,12 +23,15 @@ export default function authRouter(deps: {
     const { body } = validated(req, SignInInput);
     const user = await auth.verifyCredentials(body.email, body.password);
     await establishSession(req, user.id);
+    await auth.recordSignIn(user.id, String(req.id));
     res.json(await auth.sessionFor(user));
   });
 
   // Idempotent: signing out without a session still clears the cookie and answers 204.
   router.post('/sign-out', async (req, res) => {
+    const userId = req.session?.userId;
     await endSession(req);
+    if (userId) await auth.recordSignOut(userId, String(req.id));
     clearSessionCookie(res, deps.cookieOptions);
     res.status(204).end();
   });

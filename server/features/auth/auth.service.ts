@@ -39,6 +39,10 @@ export function createAuthService(deps: { repo: AuthRepository; mailer: Mailer; 
     findUserWithRoles: repo.findUserWithRoles,
 
     /** Checks the credentials; throws 401 INVALID_CREDENTIALS with one message for every failure. */
+    /** Audit rows for signing in and out (who, when, which request; never the password). */
+    recordSignIn: (userId: string, requestId: string | undefined) => repo.recordSessionEvent(userId, 'sign_in', requestId ?? null),
+    recordSignOut: (userId: string, requestId: string | undefined) => repo.recordSessionEvent(userId, 'sign_out', requestId ?? null),
+
     async verifyCredentials(email: string, password: string): Promise<AuthUser> {
       const user = await repo.findUserByEmail(email);
       const ok = await verifyPassword(password, user?.passwordHash ?? (await DUMMY_HASH_PROMISE));

@@ -14,7 +14,7 @@ const CreateInput = { params: OrgParamsSchema, body: InvitationCreateSchema };
 const OrgInput = { params: OrgParamsSchema };
 
 /** Mounted at /api. */
-export default function invitationsRouter(deps: { invitations: InvitationsService; auth: { sessionFor(user: AuthUser): Promise<Session> }; guards: AuthGuards }): Router {
+export default function invitationsRouter(deps: { invitations: InvitationsService; auth: { sessionFor(user: AuthUser): Promise<Session>; recordSignIn(userId: string, requestId: string | undefined): Promise<void> }; guards: AuthGuards }): Router {
   const { invitations, auth, guards } = deps;
   const router = Router();
 
@@ -27,6 +27,7 @@ export default function invitationsRouter(deps: { invitations: InvitationsServic
     const { params, body } = validated(req, AcceptInput);
     const user = await invitations.accept(params.token, body, String(req.id));
     await establishSession(req, user.id);
+    await auth.recordSignIn(user.id, String(req.id));
     res.json(await auth.sessionFor(user));
   });
 
