@@ -10,6 +10,7 @@ import { EmcFlagListSchema, EmcRoomListSchema, type EmcFlag } from '../../shared
 import { PushResponseSchema } from '../../shared/schemas/sync';
 import { seedDemo } from '../../server/db/seed/demo';
 import { startEmcFlagJob, type EmcFlagJob } from '../../server/features/emc/emc-flag-job';
+import { createEmcRepository } from '../../server/features/emc/emc.repository';
 import { createMailer } from '../../server/lib/mail';
 import { countRows, demoEmail, expectError, KESTREL_ADMIN, signIn, sql, type SignedIn } from '../setup/api-helpers';
 import { makeReading, makeStation, mutationFor, readDemoIds, type DemoIds } from '../setup/sync-fixtures';
@@ -189,5 +190,27 @@ describe('working a flag', () => {
   it('another organisation cannot touch it; a bad id is 400', async () => {
     expectError(await kestrel.agent.post(`/api/orgs/${ids.kestrelOrgId}/flags/${flag.id}/acknowledge`).set('Origin', TRUSTED_ORIGIN).send({ note: 'x' }), 404, 'NOT_FOUND');
     expectError(await post(emc, `/flags/not-a-uuid/acknowledge`, { note: 'x' }), 400, 'VALIDATION_FAILED');
+  });
+});
+
+describe('flags of a signed-off survey', () => {
+  it('are never written by a recomputation that reaches the survey after its sign-off', async () => {
+    // The job reads the survey before it computes, and sign-off may commit in between: applying the
+    // flags looks at the state again under the survey's row lock and writes nothing once it is signed.
+    const repo = createEmcRepository(t.db);
+    const before = await countRows(t.databaseUrl, 'flags', `survey_id = '${ids.signedOffSurveyId}'`);
+    let decided = false;
+    const out = await repo.applyFlags(
+      ids.orgId,
+      ids.signedOffSurveyId,
+      () => {
+        decided = true;
+        return { creates: [], updates: [], withdraw: [] };
+      },
+      { actorUserId: null, requestId: undefined },
+    );
+    expect(out).toEqual({ created: [], updated: 0, withdrawn: 0 });
+    expect(decided).toBe(false);
+    expect(await countRows(t.databaseUrl, 'flags', `survey_id = '${ids.signedOffSurveyId}'`)).toBe(before);
   });
 });

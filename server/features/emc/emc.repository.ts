@@ -121,7 +121,10 @@ export function createEmcRepository(db: Db) {
       ctx: AuditContext,
     ): Promise<{ created: FlagRow[]; updated: number; withdrawn: number }> {
       return db.transaction(async (tx: Tx) => {
-        await tx.execute(sql`SELECT id FROM surveys WHERE id = ${surveyId} FOR UPDATE`);
+        // The state again, under the lock: sign-off hashes the report (flags included) holding this row,
+        // so a sign-off that came in while the flags were computed wins and they stay as signed.
+        const locked = await tx.execute<{ state: string }>(sql`SELECT state FROM surveys WHERE id = ${surveyId} FOR UPDATE`);
+        if (locked.rows[0]?.state === 'signed_off') return { created: [], updated: 0, withdrawn: 0 };
         const current = await tx
           .select()
           .from(flags)

@@ -252,8 +252,13 @@ export function createRepeatsService(deps: RepeatsServiceDeps) {
       }
     }
     const toWithdraw = [...existing.values()].filter((f) => !wanted.has(f.fingerprint) && f.state === 'open');
-    // A signed-off survey is a closed record: its groups are shown, its flags are not changed.
-    const writes = survey.state === 'signed_off' ? 0 : toRaise.length + toRewrite.length + toWithdraw.length;
+    // A signed-off survey is a closed record: its groups are shown, its flags are not changed. Sign-off
+    // hashes the report (flags included) holding the survey's row, so the state is read again under that
+    // row's lock before writing: a sign-off that came in while this computed wins, and no flag changes
+    // under a signed report.
+    const planned = toRaise.length + toRewrite.length + toWithdraw.length;
+    const state = planned > 0 && survey.state !== 'signed_off' ? await repo.lockSurveyState(tx, surveyId) : survey.state;
+    const writes = state === 'signed_off' ? 0 : planned;
     if (writes === 0) {
       await done();
       return { surveyId, radiusM: survey.repeatRadiusM, coverageFactor: COVERAGE_FACTOR_K, defaultRelativeStandardUncertainty: DEFAULT_RELATIVE_STANDARD_UNCERTAINTY, groups };

@@ -695,6 +695,12 @@ export function createSyncRepository(db: Db) {
 
     // --------------------------------------------------------------------------------------- repeats
 
+    /** The survey's state, read under its row lock (FOR NO KEY UPDATE: pushes' key checks still pass). */
+    async lockSurveyState(tx: Tx, surveyId: string): Promise<string | null> {
+      const result = await tx.execute<{ state: string }>(sql`SELECT state FROM surveys WHERE id = ${surveyId}::uuid FOR NO KEY UPDATE`);
+      return result.rows[0]?.state ?? null;
+    },
+
     async surveyForRepeats(tx: DbOrTx, organisationId: string, surveyId: string) {
       const [row] = await tx
         .select({ id: surveys.id, repeatRadiusM: surveys.repeatRadiusM, deleted: surveys.deleted, state: surveys.state })
