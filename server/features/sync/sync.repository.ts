@@ -2,8 +2,8 @@
  * Every database statement of sync (push, pull, conflicts, repeat groups). The bulk paths — applying a
  * push, its change_log rows, the processed-mutation rows — are single `INSERT … SELECT FROM
  * unnest($1::uuid[], $2::integer[], …)` statements: the rows travel as one array literal per column,
- * written here (`arrayLiteral`) rather than by the driver, whose per-element conversion costs several
- * times as much (STACK.md, "Performance facts": Drizzle's builder spends most of its time building SQL
+ * written here (`arrayLiteral`) rather than by the driver, whose per-element conversion costs over
+ * twice as much (STACK.md, "Performance facts": Drizzle's builder spends most of its time building SQL
  * text for many rows, so it is not used for them either). Lookups by a batch's ids join `unnest(ids)`
  * LATERAL to a key lookup that cannot be flattened into a join (LIMIT 1, or FOR UPDATE), so each id is
  * one index probe whatever the planner believes about a table a bulk push has just grown (`id = ANY(…)`
@@ -245,8 +245,8 @@ export function createSyncRepository(db: Db) {
      * change sequence per mutation not answered before (at most what the batch can use, the rest given
      * back at its end), which locks the organisation's counter row before the records' rows are locked
      * FOR UPDATE — the order of every other writer (attachments, site setup), so none can deadlock with
-     * it. A batch that only creates records locks no row here: it reserves its sequences once it has
-     * been decided (`reserveChangeSeqs`), so its reads and checks run while another push of the
+     * it. A batch that only creates records locks no row here: its write statement reserves its
+     * sequences (`writeBatch`, `reserve`), so its reads and checks run while another push of the
      * organisation holds the counter, instead of after. Then its surveys with whether the user is
      * assigned; the stations, walks, levels, rooms and instruments it names that exist in this
      * organisation; and the current rows of its records, in any organisation (the caller tells own rows
@@ -464,7 +464,8 @@ export function createSyncRepository(db: Db) {
         }
       });
       if (input.counter !== null) ctes.push(sql`counter AS (UPDATE organisations SET change_seq = ${input.counter} WHERE id = ${org})`);
-      const { changes: c, mutations: m, audits: a } = input;
+      const { changes: c, audits: a } = input;
+      const m = input.mutations.map((x) => ({ ...x, plain: isPlainApplied(x.result) }));
       const changes = unnestColumns([
         col(c, 's', 'bigint', (x) => x.seq),
         col(c, 'e', 'text', (x) => x.entity),
@@ -479,9 +480,9 @@ export function createSyncRepository(db: Db) {
         col(m, 'r', 'uuid', (x) => x.recordId),
         col(m, 'qa', 'timestamptz', (x) => x.queuedAt),
         // A plain applied answer goes into the typed columns, any other whole into result (see the schema).
-        col(m, 'ar', 'integer', (x) => (isPlainApplied(x.result) ? x.result.revision : null)),
-        col(m, 'ac', 'bigint', (x) => (isPlainApplied(x.result) ? x.result.changeSeq : null)),
-        col(m, 'res', 'jsonb', (x) => (isPlainApplied(x.result) ? null : jsonText(x.result))),
+        col(m, 'ar', 'integer', (x) => (x.plain ? x.result.revision : null)),
+        col(m, 'ac', 'bigint', (x) => (x.plain ? x.result.changeSeq : null)),
+        col(m, 'res', 'jsonb', (x) => (x.plain ? null : jsonText(x.result))),
       ]);
       const audit = unnestColumns([
         col(a, 'ac', 'text', (x) => x.action),
@@ -560,13 +561,12 @@ export function createSyncRepository(db: Db) {
       entries: { action: string; entity: string; entityId: string; before: unknown; after: unknown }[],
     ): Promise<void> {
       if (entries.length === 0) return;
-      const json = (v: unknown) => (v === null || v === undefined ? null : JSON.stringify(v));
       await tx.execute(sql`
         INSERT INTO audit_log (organisation_id, actor_user_id, action, entity, entity_id, before, after, request_id)
         SELECT ${organisationId}::uuid, ${actorUserId}::uuid, a, e, i, b, af, ${requestId}
         FROM unnest(${sql.param(entries.map((e) => e.action))}::text[], ${sql.param(entries.map((e) => e.entity))}::text[],
-                    ${sql.param(entries.map((e) => e.entityId))}::text[], ${sql.param(entries.map((e) => json(e.before)))}::jsonb[],
-                    ${sql.param(entries.map((e) => json(e.after)))}::jsonb[]) AS u(a, e, i, b, af)`);
+                    ${sql.param(entries.map((e) => e.entityId))}::text[], ${sql.param(entries.map((e) => jsonText(e.before)))}::jsonb[],
+                    ${sql.param(entries.map((e) => jsonText(e.after)))}::jsonb[]) AS u(a, e, i, b, af)`);
     },
 
     recordAudit: (tx: DbOrTx, input: Parameters<typeof recordAudit>[1]) => recordAudit(tx, input),
